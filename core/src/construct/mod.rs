@@ -1,0 +1,1 @@
+//! The published constructions (filled in by its own change).

@@ -1,0 +1,1 @@
+//! Computer searches for sequence data (filled in by its own change).

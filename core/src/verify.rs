@@ -1,0 +1,660 @@
+//! The exact Hadamard check and the verification report.
+//!
+//! One idea: H·Hᵀ = nI says exactly that every two distinct rows are orthogonal (the diagonal
+//! of a ±1 Gram matrix is n by itself). On bit-packed rows the inner product of rows i and j is
+//! `n − 2·popcount(rᵢ ⊕ rⱼ)`, so the check is: for every pair i < j, the rows differ in exactly
+//! n/2 places. Nothing is sampled and nothing is rounded; the verdict `hadamard: true` comes
+//! only from this pass over all n(n−1)/2 pairs.
+//!
+//! The pairs are visited in 4×4 tiles of rows, so each loaded word serves four products and the
+//! sixteen running popcounts stay in registers. The kernel is chosen at run time:
+//! - x86-64 with AVX-512 VPOPCNTDQ: eight words per instruction;
+//! - x86-64 with POPCNT: the scalar tile with the hardware instruction;
+//! - anything else, including wasm32: the same scalar tile, which compiles to `i64.popcnt`.
+//!
+//! No build flag is needed for any of them (`is_x86_feature_detected!`). Natively the tiles are
+//! spread over threads; in wasm32 they run on the one thread, in steps of bounded size, so a
+//! page can yield between them ([`Progressive`]).
+//!
+//! [`Verified`] is the only proof this crate accepts that a matrix is Hadamard: it can be made
+//! only by [`certify`], which runs the exact check.
+
+use crate::id::matrix_id;
+use crate::matrix::Matrix;
+use serde::{Deserialize, Serialize};
+
+/// How many failing pairs a report lists at most. The total count is always exact.
+pub const DEFAULT_PAIR_CAP: usize = 64;
+
+/// The name and version of the exact check, recorded with every verification.
+pub const CHECK_NAME: &str = "exact-gram-popcount";
+/// Bump when the check's meaning changes (never for speed-only changes).
+pub const CHECK_VERSION: u32 = 1;
+
+/// Two rows that are not orthogonal, and their inner product.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct FailingPair {
+    /// The first row, 0-based (i < j).
+    pub i: usize,
+    /// The second row, 0-based.
+    pub j: usize,
+    /// Their inner product over the integers (0 would have been orthogonal).
+    pub dot: i64,
+}
+
+/// The properties users filter by. All are exact.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Properties {
+    /// The first row and the first column are all +1.
+    pub normalized: bool,
+    /// H = Hᵀ.
+    pub symmetric: bool,
+    /// H + Hᵀ = 2I: the diagonal is +1 and h_ij = −h_ji off it.
+    pub skew: bool,
+    /// Every row sum and every column sum is the same number.
+    pub regular: bool,
+    /// The excess: the sum of all entries.
+    pub excess: i64,
+}
+
+/// Why a well-formed ±1 matrix is not Hadamard.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Failure {
+    /// Rows ≠ columns.
+    NotSquare,
+    /// n is not 1, 2 or a multiple of 4, so no Hadamard matrix of order n exists (a standard
+    /// theorem: normalise, then count how the first three rows agree).
+    ImpossibleOrder,
+    /// Some pairs of distinct rows are not orthogonal.
+    RowsNotOrthogonal,
+}
+
+/// Everything the exact check found.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Report {
+    /// The order n (the number of rows).
+    pub order: usize,
+    /// The number of columns (equal to `order` for a square matrix).
+    pub cols: usize,
+    /// True exactly when H·Hᵀ = nI and H is square.
+    pub hadamard: bool,
+    /// The reasons it is not, in the order above; empty when it is.
+    pub failures: Vec<Failure>,
+    /// The matrix id: SHA-256 of the canonical text.
+    pub sha256: String,
+    /// The properties.
+    pub properties: Properties,
+    /// The first failing pairs, in row order, at most the cap.
+    pub failing_pairs: Vec<FailingPair>,
+    /// How many pairs i < j fail in all.
+    pub failing_pairs_total: u64,
+    /// The check that decided, and its version.
+    pub check: String,
+    /// The kernel that ran (for performance records; it never changes the verdict).
+    pub kernel: String,
+}
+
+/// A matrix the exact check has passed. The only way to make one is [`certify`].
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Verified {
+    matrix: Matrix,
+    id: String,
+}
+
+impl Verified {
+    /// The matrix.
+    pub fn matrix(&self) -> &Matrix {
+        &self.matrix
+    }
+    /// Its id.
+    pub fn id(&self) -> &str {
+        &self.id
+    }
+    /// Its order.
+    pub fn order(&self) -> usize {
+        self.matrix.rows()
+    }
+    /// Gives the matrix back.
+    pub fn into_matrix(self) -> Matrix {
+        self.matrix
+    }
+}
+
+/// Runs the exact check; on success returns the proof, otherwise the report saying why not.
+pub fn certify(m: Matrix) -> Result<Verified, Box<Report>> {
+    if is_hadamard(&m) {
+        let id = matrix_id(&m);
+        Ok(Verified { matrix: m, id })
+    } else {
+        Err(Box::new(verify(&m)))
+    }
+}
+
+/// True exactly when `m` is a Hadamard matrix. Stops at the first failing pair.
+pub fn is_hadamard(m: &Matrix) -> bool {
+    if !m.is_square() || !order_possible(m.rows()) {
+        return false;
+    }
+    let mut acc = PairTally::new(0);
+    acc.stop_at_first = true;
+    gram_pass(m, &mut acc);
+    acc.total == 0
+}
+
+/// True when n is 1, 2 or a multiple of 4: the only orders a Hadamard matrix can have.
+pub fn order_possible(n: usize) -> bool {
+    n == 1 || n == 2 || (n > 0 && n % 4 == 0)
+}
+
+/// The full report for `m`, listing at most [`DEFAULT_PAIR_CAP`] failing pairs.
+pub fn verify(m: &Matrix) -> Report {
+    verify_with_cap(m, DEFAULT_PAIR_CAP)
+}
+
+/// The full report for `m`, listing at most `cap` failing pairs.
+pub fn verify_with_cap(m: &Matrix, cap: usize) -> Report {
+    let mut tally = PairTally::new(cap);
+    gram_pass(m, &mut tally);
+    finish_report(m, tally)
+}
+
+fn finish_report(m: &Matrix, mut tally: PairTally) -> Report {
+    tally.pairs.sort_unstable_by_key(|p| (p.i, p.j));
+    tally.pairs.truncate(tally.cap);
+    let mut failures = Vec::new();
+    if !m.is_square() {
+        failures.push(Failure::NotSquare);
+    }
+    if !order_possible(m.rows()) {
+        failures.push(Failure::ImpossibleOrder);
+    }
+    if tally.total > 0 {
+        failures.push(Failure::RowsNotOrthogonal);
+    }
+    Report {
+        order: m.rows(),
+        cols: m.cols(),
+        hadamard: failures.is_empty(),
+        failures,
+        sha256: matrix_id(m),
+        properties: properties(m),
+        failing_pairs: tally.pairs,
+        failing_pairs_total: tally.total,
+        check: format!("{CHECK_NAME}/v{CHECK_VERSION}"),
+        kernel: kernel_name().to_string(),
+    }
+}
+
+/// The properties of any ±1 matrix.
+pub fn properties(m: &Matrix) -> Properties {
+    let n = m.rows();
+    let square = m.is_square();
+    let normalized = n > 0 && m.row_negatives(0) == 0 && (0..n).all(|i| !m.is_negative(i, 0));
+    let (symmetric, skew) = if square {
+        let t = m.transpose();
+        let symmetric = t == *m;
+        // Skew: the diagonal is +1, and entry (i,j) is the negation of (j,i) off the diagonal,
+        // so H ⊕ Hᵀ is all ones except on the diagonal.
+        let skew = (0..n).all(|i| {
+            let (a, b) = (m.row_words(i), t.row_words(i));
+            let tail = crate::matrix::tail_mask(n);
+            a.iter().zip(b).enumerate().all(|(k, (x, y))| {
+                let mut want = if k + 1 == a.len() { tail } else { u64::MAX };
+                if k == i / 64 {
+                    want &= !(1u64 << (i % 64));
+                }
+                (x ^ y) == want
+            }) && !m.is_negative(i, i)
+        });
+        (symmetric, skew)
+    } else {
+        (false, false)
+    };
+    let row_sums: Vec<i64> = (0..n).map(|i| m.cols() as i64 - 2 * m.row_negatives(i) as i64).collect();
+    let excess = row_sums.iter().sum();
+    let regular = if n == 0 || row_sums.windows(2).any(|w| w[0] != w[1]) {
+        false
+    } else {
+        let t = m.transpose();
+        let c0 = t.cols() as i64 - 2 * t.row_negatives(0) as i64;
+        c0 == row_sums[0] && (0..t.rows()).all(|j| t.cols() as i64 - 2 * t.row_negatives(j) as i64 == c0)
+    };
+    Properties { normalized, symmetric, skew, regular, excess }
+}
+
+/// The running count of failing pairs.
+///
+/// It keeps, for each row i, its first `cap` failing partners j (visited in increasing j), and
+/// trims to the `cap` smallest pairs after each block row, so the kept list is exactly the first
+/// `cap` failing pairs in (i, j) order however the block rows are spread over threads.
+struct PairTally {
+    cap: usize,
+    pairs: Vec<FailingPair>,
+    total: u64,
+    stop_at_first: bool,
+    row_kept: [usize; T],
+}
+
+impl PairTally {
+    fn new(cap: usize) -> PairTally {
+        PairTally { cap, pairs: Vec::new(), total: 0, stop_at_first: false, row_kept: [0; T] }
+    }
+    #[inline]
+    fn record(&mut self, i: usize, j: usize, dot: i64) {
+        self.total += 1;
+        let kept = &mut self.row_kept[i % T];
+        if *kept < self.cap {
+            *kept += 1;
+            self.pairs.push(FailingPair { i, j, dot });
+        }
+    }
+    fn end_block_row(&mut self) {
+        self.row_kept = [0; T];
+        if self.pairs.len() > self.cap {
+            self.pairs.sort_unstable_by_key(|p| (p.i, p.j));
+            self.pairs.truncate(self.cap);
+        }
+    }
+    fn merge(&mut self, other: PairTally) {
+        self.total += other.total;
+        self.pairs.extend(other.pairs);
+        self.end_block_row();
+    }
+    fn done(&self) -> bool {
+        self.stop_at_first && self.total > 0
+    }
+}
+
+/// Rows per tile side.
+const T: usize = 4;
+
+/// Visits every pair i < j of rows once, recording those whose popcount is not n/2.
+fn gram_pass(m: &Matrix, tally: &mut PairTally) {
+    let blocks = m.rows().div_ceil(T);
+    #[cfg(not(target_arch = "wasm32"))]
+    {
+        // Enough work to be worth a second thread: about 2·10⁶ word products.
+        if blocks > 1 && (m.rows() * m.rows() / 2) * m.words_per_row() > 2_000_000 {
+            use rayon::prelude::*;
+            let stop = tally.stop_at_first;
+            let cap = tally.cap;
+            let parts: Vec<PairTally> = (0..blocks)
+                .into_par_iter()
+                .map(|bi| {
+                    let mut t = PairTally::new(cap);
+                    t.stop_at_first = stop;
+                    block_row(m, bi, &mut t);
+                    t.end_block_row();
+                    t
+                })
+                .collect();
+            for p in parts {
+                tally.merge(p);
+            }
+            return;
+        }
+    }
+    for bi in 0..blocks {
+        block_row(m, bi, tally);
+        tally.end_block_row();
+        if tally.done() {
+            return;
+        }
+    }
+}
+
+/// All pairs (i, j) with i in block row `bi` and j > i.
+fn block_row(m: &Matrix, bi: usize, tally: &mut PairTally) {
+    let n = m.rows();
+    let i0 = bi * T;
+    let full_i = i0 + T <= n;
+    let mut j0 = i0;
+    while j0 < n {
+        if full_i && j0 + T <= n {
+            let mut acc = [[0u32; T]; T];
+            tile(m, i0, j0, &mut acc);
+            for (a, row) in acc.iter().enumerate() {
+                for (b, &p) in row.iter().enumerate() {
+                    let (i, j) = (i0 + a, j0 + b);
+                    if j > i {
+                        check_pair(m, i, j, p, tally);
+                    }
+                }
+            }
+        } else {
+            for i in i0..(i0 + T).min(n) {
+                for j in j0.max(i + 1)..(j0 + T).min(n) {
+                    let p = m.row_words(i).iter().zip(m.row_words(j)).map(|(x, y)| (x ^ y).count_ones()).sum();
+                    check_pair(m, i, j, p, tally);
+                }
+            }
+        }
+        if tally.done() {
+            return;
+        }
+        j0 += T;
+    }
+}
+
+#[inline]
+fn check_pair(m: &Matrix, i: usize, j: usize, popcount: u32, tally: &mut PairTally) {
+    let dot = m.cols() as i64 - 2 * popcount as i64;
+    if dot != 0 {
+        tally.record(i, j, dot);
+    }
+}
+
+/// The popcounts of rᵢ ⊕ rⱼ for the 4×4 tile of rows i0.., j0.., by the best kernel here.
+#[inline]
+fn tile(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
+    #[cfg(target_arch = "x86_64")]
+    {
+        match x86::level() {
+            x86::Level::Avx512 => {
+                // SAFETY: the CPU reports AVX-512F and AVX-512 VPOPCNTDQ.
+                unsafe { x86::tile_avx512(m, i0, j0, acc) };
+                return;
+            }
+            x86::Level::Popcnt => {
+                // SAFETY: the CPU reports POPCNT.
+                unsafe { x86::tile_popcnt(m, i0, j0, acc) };
+                return;
+            }
+            x86::Level::Baseline => {}
+        }
+    }
+    tile_scalar(m, i0, j0, acc);
+}
+
+/// The portable tile: sixteen running popcounts over the rows' words.
+#[inline(always)]
+fn tile_scalar(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
+    let w = m.words_per_row();
+    let a = [m.row_words(i0), m.row_words(i0 + 1), m.row_words(i0 + 2), m.row_words(i0 + 3)];
+    let b = [m.row_words(j0), m.row_words(j0 + 1), m.row_words(j0 + 2), m.row_words(j0 + 3)];
+    let (a0, a1, a2, a3) = (&a[0][..w], &a[1][..w], &a[2][..w], &a[3][..w]);
+    let (b0, b1, b2, b3) = (&b[0][..w], &b[1][..w], &b[2][..w], &b[3][..w]);
+    let mut s = [[0u32; T]; T];
+    for k in 0..w {
+        let x = [a0[k], a1[k], a2[k], a3[k]];
+        let y = [b0[k], b1[k], b2[k], b3[k]];
+        for r in 0..T {
+            for c in 0..T {
+                s[r][c] += (x[r] ^ y[c]).count_ones();
+            }
+        }
+    }
+    *acc = s;
+}
+
+/// The name of the kernel [`verify`] uses on this machine.
+pub fn kernel_name() -> &'static str {
+    #[cfg(target_arch = "x86_64")]
+    {
+        match x86::level() {
+            x86::Level::Avx512 => return "avx512-vpopcntdq-tiled",
+            x86::Level::Popcnt => return "popcnt-tiled",
+            x86::Level::Baseline => {}
+        }
+    }
+    #[cfg(target_arch = "wasm32")]
+    {
+        return "wasm32-scalar-tiled";
+    }
+    #[allow(unreachable_code)]
+    "scalar-tiled"
+}
+
+#[cfg(target_arch = "x86_64")]
+mod x86 {
+    use super::{Matrix, T};
+    use std::arch::x86_64::*;
+    use std::sync::atomic::{AtomicU8, Ordering};
+
+    #[derive(Clone, Copy, PartialEq, Eq)]
+    pub enum Level {
+        Baseline,
+        Popcnt,
+        Avx512,
+    }
+
+    static LEVEL: AtomicU8 = AtomicU8::new(0);
+
+    /// The best kernel this CPU runs, detected once.
+    #[inline]
+    pub fn level() -> Level {
+        match LEVEL.load(Ordering::Relaxed) {
+            1 => Level::Baseline,
+            2 => Level::Popcnt,
+            3 => Level::Avx512,
+            _ => {
+                let l = if std::env::var_os("HADAMARD_KERNEL").is_some_and(|v| v == "scalar") {
+                    Level::Baseline
+                } else if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
+                    Level::Avx512
+                } else if is_x86_feature_detected!("popcnt") {
+                    Level::Popcnt
+                } else {
+                    Level::Baseline
+                };
+                LEVEL.store(
+                    match l {
+                        Level::Baseline => 1,
+                        Level::Popcnt => 2,
+                        Level::Avx512 => 3,
+                    },
+                    Ordering::Relaxed,
+                );
+                l
+            }
+        }
+    }
+
+    /// Forces the kernel (benchmarks compare them); `None` re-detects.
+    pub fn force(l: Option<Level>) {
+        LEVEL.store(
+            match l {
+                None => 0,
+                Some(Level::Baseline) => 1,
+                Some(Level::Popcnt) => 2,
+                Some(Level::Avx512) => 3,
+            },
+            Ordering::Relaxed,
+        );
+    }
+
+    #[target_feature(enable = "popcnt")]
+    pub unsafe fn tile_popcnt(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
+        super::tile_scalar(m, i0, j0, acc)
+    }
+
+    #[target_feature(enable = "avx512f,avx512vpopcntdq")]
+    pub unsafe fn tile_avx512(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
+        let w = m.words_per_row();
+        let bits = m.words().as_ptr();
+        let row = |i: usize| bits.add(i * w);
+        let (a0, a1, a2, a3) = (row(i0), row(i0 + 1), row(i0 + 2), row(i0 + 3));
+        let (b0, b1, b2, b3) = (row(j0), row(j0 + 1), row(j0 + 2), row(j0 + 3));
+        let z = _mm512_setzero_si512();
+        let mut s = [z; 16];
+        let mut k = 0;
+        while k < w {
+            let left = w - k;
+            let mask: __mmask8 = if left >= 8 { 0xff } else { (1u8 << left) - 1 };
+            let ld = |p: *const u64| _mm512_maskz_loadu_epi64(mask, p.add(k) as *const i64);
+            let x = [ld(a0), ld(a1), ld(a2), ld(a3)];
+            let y = [ld(b0), ld(b1), ld(b2), ld(b3)];
+            for r in 0..T {
+                for c in 0..T {
+                    let d = _mm512_xor_si512(x[r], y[c]);
+                    s[r * T + c] = _mm512_add_epi64(s[r * T + c], _mm512_popcnt_epi64(d));
+                }
+            }
+            k += 8;
+        }
+        for r in 0..T {
+            for c in 0..T {
+                acc[r][c] = _mm512_reduce_add_epi64(s[r * T + c]) as u32;
+            }
+        }
+    }
+}
+
+/// Selects the verification kernel: `"auto"` (detect), `"scalar"`, `"popcnt"` or `"avx512"`.
+/// Benchmarks use this to compare kernels in one run; the verdict never depends on it.
+/// Returns false when the name is unknown or the CPU lacks the kernel.
+pub fn force_kernel(name: &str) -> bool {
+    #[cfg(target_arch = "x86_64")]
+    {
+        use x86::Level;
+        let l = match name {
+            "auto" => None,
+            "scalar" => Some(Level::Baseline),
+            "popcnt" if is_x86_feature_detected!("popcnt") => Some(Level::Popcnt),
+            "avx512" if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") => {
+                Some(Level::Avx512)
+            }
+            _ => return false,
+        };
+        x86::force(l);
+        true
+    }
+    #[cfg(not(target_arch = "x86_64"))]
+    {
+        matches!(name, "auto" | "scalar")
+    }
+}
+
+/// Verification in bounded steps, for a caller that must stay responsive (the browser).
+///
+/// Each [`Progressive::step`] checks a few block rows; [`Progressive::finish`] gives the same
+/// report as [`verify`] would.
+pub struct Progressive<'a> {
+    m: &'a Matrix,
+    next_block: usize,
+    blocks: usize,
+    tally: PairTally,
+    pairs_done: u64,
+}
+
+impl<'a> Progressive<'a> {
+    /// Starts checking `m`.
+    pub fn new(m: &'a Matrix, cap: usize) -> Progressive<'a> {
+        Progressive { m, next_block: 0, blocks: m.rows().div_ceil(T), tally: PairTally::new(cap), pairs_done: 0 }
+    }
+
+    /// Checks block rows until about `budget` row pairs have been done; returns the fraction
+    /// of all pairs done so far (1.0 when finished).
+    pub fn step(&mut self, budget: u64) -> f64 {
+        let n = self.m.rows() as u64;
+        let total = (n * n.saturating_sub(1) / 2).max(1);
+        let mut spent = 0;
+        while self.next_block < self.blocks && spent < budget {
+            block_row(self.m, self.next_block, &mut self.tally);
+            self.tally.end_block_row();
+            let i0 = (self.next_block * T) as u64;
+            let rows_here = (n - i0).min(T as u64);
+            let pairs = rows_here * (n - i0) - rows_here * (rows_here + 1) / 2;
+            spent += pairs;
+            self.pairs_done += pairs;
+            self.next_block += 1;
+        }
+        if self.is_done() {
+            1.0
+        } else {
+            self.pairs_done as f64 / total as f64
+        }
+    }
+
+    /// True when every pair has been checked.
+    pub fn is_done(&self) -> bool {
+        self.next_block >= self.blocks
+    }
+
+    /// The report. Checks whatever is left first.
+    pub fn finish(mut self) -> Report {
+        while !self.is_done() {
+            self.step(u64::MAX);
+        }
+        finish_report(self.m, self.tally)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn sylvester(k: u32) -> Matrix {
+        let n = 1usize << k;
+        Matrix::from_fn(n, n, |i, j| (i & j).count_ones() % 2 == 1)
+    }
+
+    #[test]
+    fn sylvester_passes_every_kernel() {
+        for kernel in ["scalar", "popcnt", "avx512", "auto"] {
+            if !force_kernel(kernel) {
+                continue;
+            }
+            for k in 0..=9 {
+                let h = sylvester(k);
+                let r = verify(&h);
+                assert!(r.hadamard, "k={k} kernel={kernel}");
+                assert_eq!(r.failing_pairs_total, 0);
+            }
+        }
+        force_kernel("auto");
+    }
+
+    #[test]
+    fn one_flip_fails_every_pair_through_its_row() {
+        // Flipping entry (r, c) changes the dot of row r with every other row by ±2, so exactly
+        // n − 1 pairs fail, all containing row r.
+        let mut h = sylvester(6);
+        h.flip(37, 5);
+        let r = verify_with_cap(&h, 1000);
+        assert!(!r.hadamard);
+        assert_eq!(r.failing_pairs_total, 63);
+        assert!(r.failing_pairs.iter().all(|p| p.i == 37 || p.j == 37));
+        assert!(r.failing_pairs.iter().all(|p| p.dot.abs() == 2));
+    }
+
+    #[test]
+    fn properties_of_small_matrices() {
+        let h2 = sylvester(1);
+        let p = properties(&h2);
+        assert!(p.normalized && p.symmetric && !p.skew);
+        // [[1,1],[-1,1]] is skew: H + Hᵀ = 2I.
+        let s = Matrix::from_rows(&[[1i8, 1], [-1, 1]]).unwrap();
+        let p = properties(&s);
+        assert!(p.skew && !p.symmetric && !p.normalized);
+        // A regular Hadamard matrix of order 4: J − 2I (row sums 2).
+        let j = Matrix::from_fn(4, 4, |i, k| i == k);
+        let p = properties(&j);
+        assert!(p.regular && p.symmetric);
+        assert_eq!(p.excess, 8);
+        assert!(verify(&j).hadamard);
+    }
+
+    #[test]
+    fn six_by_six_is_never_hadamard() {
+        let m = Matrix::ones_square(6);
+        let r = verify(&m);
+        assert!(!r.hadamard);
+        assert!(r.failures.contains(&Failure::ImpossibleOrder));
+    }
+
+    #[test]
+    fn progressive_matches_verify() {
+        let mut h = sylvester(7);
+        h.flip(3, 3);
+        let mut p = Progressive::new(&h, 10);
+        let mut last = 0.0;
+        while !p.is_done() {
+            let f = p.step(500);
+            assert!(f >= last);
+            last = f;
+        }
+        assert_eq!(p.finish(), verify_with_cap(&h, 10));
+    }
+}
