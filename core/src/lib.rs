@@ -21,6 +21,7 @@ pub mod id;
 pub mod matrix;
 pub mod repair;
 pub mod route;
+pub mod seed;
 #[cfg(not(target_arch = "wasm32"))]
 pub mod search;
 pub mod verify;
