@@ -452,9 +452,7 @@ mod x86 {
             2 => Level::Popcnt,
             3 => Level::Avx512,
             _ => {
-                let l = if std::env::var_os("HADAMARD_KERNEL").is_some_and(|v| v == "scalar") {
-                    Level::Baseline
-                } else if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
+                let l = if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
                     Level::Avx512
                 } else if is_x86_feature_detected!("popcnt") {
                     Level::Popcnt
