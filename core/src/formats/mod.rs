@@ -49,7 +49,9 @@
 //! 1. `npy` if the input starts with NumPy's magic `\x93NUMPY`;
 //! 2. `json` if its first character other than whitespace (after a byte-order mark) is `[`;
 //! 3. `bits` if a comment before the first row is a `# bits:` mapping header;
-//! 4. otherwise the first row (the first line that is neither blank nor a comment) decides:
+//! 4. otherwise the first row (the first line that is neither blank nor a comment) decides.
+//!    If it starts with a character that begins no entry of any format (a letter, a control
+//!    byte), the input is refused as unrecognised, at that character. Else:
 //!    - any digit 2–9, a `.`, a `,`, or a sign directly before a digit means `int`;
 //!    - else any `+`, `-` or `−` means `pm`;
 //!    - else a `0`, or two of `0`/`1`/`?` side by side with a digit among them, means `bits`;

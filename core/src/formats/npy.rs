@@ -198,7 +198,10 @@ impl Lit<'_> {
             v = v
                 .checked_mul(10)
                 .and_then(|v| v.checked_add(usize::from(c - b'0')))
-                .ok_or_else(|| self.err("a dimension of the shape is too large"))?;
+                .ok_or_else(|| {
+                    self.pos = start;
+                    self.err("a dimension of the shape is too large")
+                })?;
             self.pos += 1;
         }
         if self.pos == start {
@@ -303,6 +306,7 @@ fn parse_header(bytes: &[u8]) -> Result<Header, ParseError> {
         if !p.eat(b':') {
             return Err(p.err("expected ':'"));
         }
+        p.ws();
         let value_at = p.base + p.pos;
         let value = p.value()?;
         match (key.as_str(), value) {

@@ -84,6 +84,14 @@ pub(super) fn sniff(bytes: &[u8]) -> Sniff {
 }
 
 fn row_says(text: &[u8]) -> Says {
+    // A row that starts with a character of no format is not a row: prose, or binary.
+    if let Some(k) = text.iter().position(|&c| c != b' ' && c != b'\t') {
+        if !matches!(text[k], b'+' | b'-' | b'?' | b'0'..=b'9' | b'.' | b',')
+            && !text[k..].starts_with(MINUS)
+        {
+            return Says::Garbage(k);
+        }
+    }
     let (mut int, mut pm, mut zero, mut one, mut adjacent) = (false, false, false, false, false);
     let mut garbage = None;
     // Length of the current run of `0`/`1`/`?` characters, and whether it holds a digit.
