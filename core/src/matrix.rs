@@ -289,6 +289,28 @@ impl Matrix {
         }
     }
 
+    /// The normalised form: columns negated so the first row is all +1, then rows negated so
+    /// the first column is all +1. It is equivalent to `self`, and Hadamard exactly when `self` is.
+    pub fn normalized(&self) -> Matrix {
+        let mut m = self.clone();
+        if m.rows == 0 {
+            return m;
+        }
+        // Negating column j for every −1 in row 0 is an XOR of every row with row 0.
+        let first: Vec<u64> = m.row_words(0).to_vec();
+        for i in 0..m.rows {
+            for (w, f) in m.row_words_mut(i).iter_mut().zip(&first) {
+                *w ^= f;
+            }
+        }
+        for i in 0..m.rows {
+            if m.cols > 0 && m.is_negative(i, 0) {
+                m.negate_row(i);
+            }
+        }
+        m
+    }
+
     /// The ±1 entries as `i8`, row-major.
     pub fn to_i8_rows(&self) -> Vec<Vec<i8>> {
         (0..self.rows).map(|i| (0..self.cols).map(|j| self.get(i, j)).collect()).collect()
@@ -427,6 +449,13 @@ mod tests {
         for i in 0..k.rows() {
             assert_eq!(k.row_words(i).last().unwrap() & !tail_mask(k.cols()), 0);
         }
+    }
+
+    #[test]
+    fn normalized_has_plus_first_row_and_column() {
+        let m = pseudo(9, 70, 5).normalized();
+        assert_eq!(m.row_negatives(0), 0);
+        assert!((0..9).all(|i| !m.is_negative(i, 0)));
     }
 
     #[test]

@@ -1,0 +1,6 @@
+//! One module per command. Each parses its arguments (clap), calls `hadamard-core`, and prints.
+
+pub mod convert;
+pub mod input;
+pub mod output;
+pub mod verify;

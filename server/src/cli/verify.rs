@@ -1,0 +1,136 @@
+//! `hadamard verify`: read one matrix, check H·Hᵀ = nI exactly, report.
+//!
+//! Exit 0: a Hadamard matrix. Exit 1: a well-formed ±1 matrix that is not (including a
+//! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
+//! Exit 2: unreadable, malformed, or a usage error; the message names the place.
+
+use super::input::{read_input, InputArgs};
+use hadamard_core::repair::{self, Completion, Repair};
+use hadamard_core::verify::{self, Report};
+use serde_json::{json, Value};
+use std::process::ExitCode;
+use std::time::Instant;
+
+#[derive(clap::Args)]
+pub struct VerifyArgs {
+    /// Print one JSON object on stdout instead of text for people.
+    #[arg(long)]
+    json: bool,
+    /// How many failing row pairs to list (the total is always counted).
+    #[arg(long, default_value_t = verify::DEFAULT_PAIR_CAP)]
+    max_pairs: usize,
+    #[command(flatten)]
+    input: InputArgs,
+}
+
+pub fn run(args: VerifyArgs) -> ExitCode {
+    let parsed = match read_input(&args.input) {
+        Ok(p) => p,
+        Err(e) => return e.report(args.json),
+    };
+    let start = Instant::now();
+    let report = verify::verify_with_cap(&parsed.matrix, args.max_pairs);
+    let elapsed = start.elapsed();
+    // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
+    let erased = !parsed.erasures.is_empty();
+    let hadamard = report.hadamard && !erased;
+
+    let completion = erased.then(|| repair::complete(&parsed.matrix, &parsed.erasures, repair::CompletionLimits::default()));
+    let fix = (!hadamard && !erased).then(|| repair::single_wrong_entry(&parsed.matrix, &report)).flatten();
+
+    if args.json {
+        let mut v = serde_json::to_value(&report).unwrap_or(Value::Null);
+        if let Value::Object(o) = &mut v {
+            o.insert("hadamard".into(), json!(hadamard));
+            o.insert("format".into(), json!(parsed.format.name()));
+            o.insert("failing_pairs_index_base".into(), json!(0));
+            o.insert("elapsed_ms".into(), json!(elapsed.as_secs_f64() * 1e3));
+            o.insert("erased_entries".into(), json!(parsed.erasures.len()));
+            o.insert("repair".into(), fix.as_ref().map_or(Value::Null, repair_json));
+            o.insert("completion".into(), completion.as_ref().map_or(Value::Null, completion_json));
+        }
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        print_human(&report, hadamard, parsed.format.name(), elapsed.as_secs_f64(), fix.as_ref(), completion.as_ref());
+    }
+    if hadamard {
+        ExitCode::SUCCESS
+    } else {
+        ExitCode::from(1)
+    }
+}
+
+fn repair_json(r: &Repair) -> Value {
+    json!({
+        "kind": "single_wrong_entry",
+        "row": r.row,
+        "col": r.col,
+        "index_base": 0,
+        "corrected_sha256": r.corrected_id,
+    })
+}
+
+fn completion_json(c: &Completion) -> Value {
+    match c {
+        Completion::Unique { id, .. } => json!({"kind": "unique", "completed_sha256": id}),
+        Completion::None => json!({"kind": "none"}),
+        Completion::Several { count, complete } => json!({"kind": "several", "count": count, "count_is_exact": complete}),
+        Completion::GaveUp { explored } => json!({"kind": "undecided", "explored_nodes": explored}),
+    }
+}
+
+fn print_human(r: &Report, hadamard: bool, format: &str, secs: f64, fix: Option<&Repair>, completion: Option<&Completion>) {
+    let shape = if r.order == r.cols { format!("order {}", r.order) } else { format!("{}×{}", r.order, r.cols) };
+    if hadamard {
+        println!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).", r.order);
+    } else {
+        println!("not Hadamard: {shape}.");
+        for f in &r.failures {
+            match f {
+                verify::Failure::NotSquare => println!("  it is not square: {} rows, {} columns", r.order, r.cols),
+                verify::Failure::ImpossibleOrder => println!(
+                    "  {} is not 1, 2 or a multiple of 4, so no Hadamard matrix of this order exists",
+                    r.order
+                ),
+                verify::Failure::RowsNotOrthogonal => {
+                    let pairs = r.order as u64 * (r.order as u64).saturating_sub(1) / 2;
+                    println!("  {} of {} row pairs are not orthogonal (rows counted from 1):", r.failing_pairs_total, pairs);
+                    for p in r.failing_pairs.iter().take(10) {
+                        println!("    rows {} and {}: inner product {}", p.i + 1, p.j + 1, p.dot);
+                    }
+                    if r.failing_pairs_total > 10 {
+                        println!("    … and {} more (--json lists up to --max-pairs)", r.failing_pairs_total - 10);
+                    }
+                }
+            }
+        }
+        if let Some(f) = fix {
+            println!(
+                "  one wrong sign explains it: row {}, column {}. Flipped, it is Hadamard with id {}.",
+                f.row + 1,
+                f.col + 1,
+                f.corrected_id
+            );
+        }
+    }
+    if let Some(c) = completion {
+        match c {
+            Completion::Unique { id, .. } => println!("  the erased entries (?) are fixed by orthogonality: one completion, id {id}"),
+            Completion::None => println!("  no way of filling the erased entries (?) gives a Hadamard matrix"),
+            Completion::Several { count, complete: true } => println!("  the erased entries (?) admit {count} completions"),
+            Completion::Several { count, complete: false } => println!("  the erased entries (?) admit at least {count} completions"),
+            Completion::GaveUp { .. } => println!("  the erased entries (?) could not be settled within the search limit"),
+        }
+    }
+    let p = &r.properties;
+    let mut props: Vec<&str> = Vec::new();
+    for (on, name) in [(p.normalized, "normalized"), (p.symmetric, "symmetric"), (p.skew, "skew"), (p.regular, "regular")] {
+        if on {
+            props.push(name);
+        }
+    }
+    println!("  id          {}", r.sha256);
+    println!("  properties  {} (excess {})", if props.is_empty() { "none of normalized, symmetric, skew, regular".into() } else { props.join(", ") }, p.excess);
+    println!("  read as     {format}");
+    println!("  check       {} on {}, {:.3} ms", r.check, r.kernel, secs * 1e3);
+}
