@@ -205,7 +205,7 @@ mod tests {
         for e in lit.orders.iter().filter(|e| e.open) {
             // Derived (constructions.md §1): each open n/4 is a prime ≡ 3 mod 4.
             assert!(
-                super::super::nt::is_prime(e.order / 4) && e.order / 4 % 4 == 3,
+                crate::arith::is_prime(e.order / 4) && e.order / 4 % 4 == 3,
                 "{}",
                 e.order
             );

@@ -18,14 +18,18 @@
 //! call such an order open (documented in `docs/constructions.md`).
 
 mod advice;
+mod build;
 pub mod literature;
-pub(crate) mod nt;
 mod plan;
 #[cfg(test)]
 mod tests;
 
 pub use advice::{
     dimension_advice, smallest_constructible_at_least, smallest_known_at_least, Advice, Factoring,
+};
+pub use build::{
+    build, build_order, build_recipe, recipe_for, BuildError, Recipe, MAX_BUILD_ORDER,
+    RECIPE_FORMAT,
 };
 pub use plan::{Planner, SeedIndex};
 

@@ -1,8 +1,8 @@
 //! The planner: every route this program knows for an order, memoised per order.
 
 use super::literature::{self, Verdict};
-use super::nt::{divisors_of, factor, prime_power};
-use super::{order_possible, Method, OrderInfo, Route, Status, Step};
+use super::{order_possible, Method, OrderInfo, Route, Status, Step, MAX_BUILD_ORDER};
+use crate::arith::{divisors, prime_power};
 use crate::construct::sequences::{
     to_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
 };
@@ -39,10 +39,6 @@ pub(crate) mod refs {
     pub const WILLIAMSON_KNOWN: &str = "Williamson matrices of this order are known: Holzmann, Kharaghani and Tayfeh-Rezaie, Des. Codes Cryptogr. 46 (2008), and the works it cites";
     pub const WILLIAMSON_23: &str = "Baumert, Golomb and Hall, Bull. Amer. Math. Soc. 68 (1962)";
 }
-
-/// Whether `construct` implements Turyn's Williamson family yet (the planner lists it as
-/// known either way).
-const TURYN_WILLIAMSON_BUILT: bool = false;
 
 /// The odd orders m for which Williamson matrices are known (constructions.md §3). None exist
 /// for 35, 47, 53, 59 (Đoković 1993; Holzmann, Kharaghani and Tayfeh-Rezaie 2008).
@@ -126,15 +122,6 @@ fn leak_key(name: &str) -> &'static str {
     }
 }
 
-/// True when every node of this method is implemented by `construct`.
-fn implemented(m: Method) -> bool {
-    match m {
-        Method::Miyamoto | Method::Yamada | Method::Literature | Method::Published => false,
-        Method::TurynWilliamson => TURYN_WILLIAMSON_BUILT,
-        _ => true,
-    }
-}
-
 /// Makes a node; `buildable` follows from the method and the children.
 pub(crate) fn step(
     method: Method,
@@ -143,14 +130,16 @@ pub(crate) fn step(
     reference: &str,
     children: Vec<Step>,
 ) -> Step {
-    let buildable = implemented(method) && children.iter().all(|c| c.buildable);
+    let params: BTreeMap<String, Value> = params
+        .into_iter()
+        .map(|(k, v)| (k.to_string(), v))
+        .collect();
+    let buildable =
+        super::build::implemented(method, &params) && children.iter().all(|c| c.buildable);
     Step {
         method,
         order,
-        params: params
-            .into_iter()
-            .map(|(k, v)| (k.to_string(), v))
-            .collect(),
+        params,
         reference: reference.to_string(),
         children,
         buildable,
@@ -390,7 +379,7 @@ impl Planner {
         }
         let best = self.best(n);
         match (&best, self.lit.verdict(n)) {
-            (Some(r), _) if r.buildable => Status::Constructible,
+            (Some(r), _) if r.buildable && n <= MAX_BUILD_ORDER => Status::Constructible,
             (_, Verdict::Open(_)) => Status::Open,
             (Some(_), _) => Status::Known,
             (None, Verdict::Known(..)) => Status::Known,
@@ -451,6 +440,9 @@ impl Planner {
                 method_words(best.map_or(Method::Sylvester, |r| r.method)),
                 best.map_or(1, |r| r.largest_dense_factor)
             ),
+            Status::Known if best.is_some_and(|r| r.buildable) => format!(
+                "Order {n} has a route this program could carry out, but it is above the build limit of {MAX_BUILD_ORDER} (a dense matrix of order n takes n²/8 bytes); it is known."
+            ),
             Status::Known => format!(
                 "A Hadamard matrix of order {n} is known in the literature, but this program cannot build one yet; the routes below say how and where it was found."
             ),
@@ -505,8 +497,7 @@ impl Planner {
                 vec![],
             )));
         }
-        let f = factor(n);
-        let divs = divisors_of(&f);
+        let divs = divisors(n);
         // Kronecker products a·b, a ≤ b, both possible orders, not both powers of two.
         for &a in divs.iter().filter(|&&a| a >= 2 && a <= n / a) {
             let b = n / a;
@@ -578,8 +569,7 @@ impl Planner {
             )));
         }
         // Cooper–Wallis 4tw with t ≥ 2 a T-length and w ≥ 3 a Williamson order.
-        let qf = factor(quarter);
-        for &t in divisors_of(&qf)
+        for &t in divisors(quarter)
             .iter()
             .filter(|&&t| t >= 2 && quarter / t >= 3)
         {

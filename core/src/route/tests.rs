@@ -107,10 +107,16 @@ fn classical_constructions_cover_most_orders_up_to_1208() {
     assert!(n >= 230, "{n}");
     // constructions.md §2 #5: conference products add 520, 952 over Sylvester, Paley and Kronecker.
     let mut without = Planner::only(&[Sylvester, PaleyOne, PaleyTwo, Kronecker]);
+    // FIXME: conference products are planned but construct has no conference product yet, so
+    // 520 and 952 stay known; when build.rs dispatches it this becomes (Constructible, Known).
     for n in [520, 952] {
         assert_eq!(
             (p.status(n), without.status(n)),
-            (Status::Constructible, Status::Known),
+            (Status::Known, Status::Known),
+            "{n}"
+        );
+        assert!(
+            p.routes(n).iter().any(|r| r.method == ConferenceProduct),
             "{n}"
         );
     }
@@ -201,7 +207,7 @@ fn ranking_prefers_buildable_then_small_dense_factor() {
             .find(|r| r.method == m)
             .map(|r| r.largest_dense_factor)
     };
-    assert_eq!(info.routes[0].method, Method::ConferenceProduct);
+    assert!(info.routes[0].buildable);
     assert_eq!(
         (
             dense(Method::ConferenceProduct),
@@ -246,4 +252,72 @@ fn json_shape_follows_the_interface() {
         "impossible"
     );
     assert!(order_info(6).note.contains("4 and 8"));
+}
+
+#[test]
+fn every_constructible_order_up_to_400_builds_and_verifies() {
+    // The full sweep to 1208 is `cargo bench --bench build_all` (release): debug builds are slow.
+    let mut p = Planner::new();
+    for n in [1u64, 2].into_iter().chain((4..=400).step_by(4)) {
+        if p.status(n) != Status::Constructible {
+            continue;
+        }
+        let info = p.order_info(n);
+        let v = build(&info.routes[0]).unwrap_or_else(|e| panic!("{n}: {e}"));
+        assert_eq!(v.order() as u64, n);
+        // numpy-free restatement of the definition: H·Hᵀ = nI, decided by verify::is_hadamard.
+        assert!(crate::verify::is_hadamard(v.matrix()), "{n}");
+    }
+}
+
+#[test]
+fn build_order_explains_failures() {
+    assert!(matches!(
+        build_order(668),
+        Err(BuildError::NoRoute {
+            status: Status::Open,
+            ..
+        })
+    ));
+    assert!(matches!(
+        build_order(6),
+        Err(BuildError::NoRoute {
+            status: Status::Impossible,
+            ..
+        })
+    ));
+    assert!(matches!(
+        build_order(1 << 40),
+        Err(BuildError::TooLarge { .. })
+    ));
+    assert_eq!(build_order(12).unwrap().order(), 12);
+    // Above the build limit a buildable route makes the order known, not constructible.
+    assert_eq!(status(1 << 20), Status::Known);
+    assert!(order_info(1 << 20).note.contains("build limit"));
+}
+
+#[test]
+fn recipe_round_trip_gives_the_same_matrix() {
+    for n in [24u64, 48, 60, 108] {
+        let info = order_info(n);
+        let route = info.routes.iter().find(|r| r.buildable).unwrap();
+        let first = build(route).unwrap();
+        let mut recipe = recipe_for(route);
+        assert_eq!(recipe.format, RECIPE_FORMAT);
+        recipe.id = Some(first.id().to_string());
+        let json = serde_json::to_string(&recipe).unwrap();
+        let back: Recipe = serde_json::from_str(&json).unwrap();
+        assert_eq!(build_recipe(&back).unwrap().id(), first.id(), "{n}");
+        let mut wrong = back.clone();
+        wrong.id = Some("0".repeat(64));
+        assert!(matches!(
+            build_recipe(&wrong),
+            Err(BuildError::IdMismatch { .. })
+        ));
+        wrong.order += 4;
+        assert!(matches!(
+            build_recipe(&wrong),
+            Err(BuildError::BadRecipe(_))
+        ));
+    }
 }
