@@ -91,7 +91,7 @@ pub fn parse(text: &str) -> Result<Literature, ParseError> {
         match words[..] {
             [kind @ ("open" | "known"), n] => {
                 let order = num(n)?;
-                if order % 4 != 0 {
+                if !order.is_multiple_of(4) {
                     return Err(err(format!("{order} is not a multiple of 4")));
                 }
                 if lit.orders.iter().any(|e| e.order == order) {
@@ -162,7 +162,7 @@ impl Literature {
         match self
             .ranges
             .iter()
-            .find(|r| r.from <= n && n <= r.to && n % 4 == 0)
+            .find(|r| r.from <= n && n <= r.to && n.is_multiple_of(4))
         {
             Some(r) => Verdict::Known(entry, r),
             None => Verdict::Silent,

@@ -176,5 +176,5 @@ pub fn coverage(max: u64) -> Vec<(u64, Status)> {
 
 /// True when a Hadamard matrix of order n can exist at all.
 pub fn order_possible(n: u64) -> bool {
-    n == 1 || n == 2 || (n > 0 && n % 4 == 0)
+    n == 1 || n == 2 || (n > 0 && n.is_multiple_of(4))
 }

@@ -306,7 +306,7 @@ fn is_published_golay_length(g: u64) -> bool {
     let mut rest = g;
     let mut val = |p: u64| {
         let mut k = 0;
-        while rest > 0 && rest % p == 0 {
+        while rest > 0 && rest.is_multiple_of(p) {
             rest /= p;
             k += 1;
         }
@@ -519,7 +519,7 @@ impl Planner {
         // Conference products c·h, c = q+1 with q ≡ 1 mod 4, h a multiple of 4.
         for &c in divs.iter().filter(|&&c| c >= 6 && c % 4 == 2) {
             let h = n / c;
-            if h % 4 != 0 || prime_power(c - 1).is_none() {
+            if !h.is_multiple_of(4) || prime_power(c - 1).is_none() {
                 continue;
             }
             if let Some(rh) = self.best(h) {
@@ -585,7 +585,7 @@ impl Planner {
                 vec![ts, ws],
             )));
         }
-        if n % 8 == 0 {
+        if n.is_multiple_of(8) {
             if let Some(h) = self.skew_route(n / 2) {
                 out.push(route(step(
                     Method::SkewDoubling,
@@ -618,7 +618,7 @@ impl Planner {
     }
 
     fn paley_one(&self, n: u64) -> Option<Step> {
-        (n >= 4 && n % 4 == 0 && prime_power(n - 1).is_some()).then(|| {
+        (n >= 4 && n.is_multiple_of(4) && prime_power(n - 1).is_some()).then(|| {
             step(
                 Method::PaleyOne,
                 n,
@@ -635,7 +635,7 @@ impl Planner {
             return s.clone();
         }
         let s = self.paley_one(h).or_else(|| {
-            (h % 8 == 0)
+            (h.is_multiple_of(8))
                 .then(|| self.skew_route(h / 2))
                 .flatten()
                 .map(|c| {
@@ -791,7 +791,7 @@ impl Planner {
                     &e.provenance,
                     vec![],
                 ))
-            } else if n % 2 == 0 && n <= 38 {
+            } else if n.is_multiple_of(2) && n <= 38 {
                 Some(step(
                     Method::Published,
                     n,
@@ -864,7 +864,7 @@ impl Planner {
                 vec![],
             ));
         }
-        if found.is_none() && g % 2 == 0 && g > 2 {
+        if found.is_none() && g.is_multiple_of(2) && g > 2 {
             if let Some(h) = self.golay_source(g / 2).filter(|h| h.buildable) {
                 found = Some(step(Method::GolayDoubling, g, vec![], refs::GOLAY, vec![h]));
             }
@@ -875,7 +875,7 @@ impl Planner {
                 .golay
                 .keys()
                 .copied()
-                .filter(|&s| s > 2 && g % s == 0 && g > s)
+                .filter(|&s| s > 2 && g.is_multiple_of(s) && g > s)
                 .collect();
             for s in seeds {
                 if let (Some(a), Some(b)) = (
