@@ -1,7 +1,15 @@
 //! Temporary driver for searches while the `hadamard search` CLI cannot be built (the server
 //! crate waits for `formats`): `search KIND PARAM [LIMIT]`, printing seed-catalogue lines.
-use hadamard_core::search::{aperiodic, goethals_seidel, run_to_end, williamson};
+use hadamard_core::search::{aperiodic, goethals_seidel, run, williamson, Hooks, RunConfig, Search};
+use std::sync::atomic::AtomicBool;
 use std::time::Instant;
+
+fn run_to_end<S: Search>(s: &S, limit: Option<usize>) -> Vec<String> {
+    let batch = std::env::var("BATCH").ok().and_then(|b| b.parse().ok()).unwrap_or(64);
+    let stop = AtomicBool::new(false);
+    let hooks = Hooks { progress: &|d, t| eprint!("\r{d}/{t} units  "), checkpoint: &mut |_| {}, stop: &stop };
+    run(s, RunConfig { limit, batch, ..RunConfig::default() }, None, hooks).unwrap().results
+}
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();

@@ -255,6 +255,9 @@ impl AperiodicSearch {
             found(x);
             return;
         }
+        if !self.sums_can_fit(x) {
+            return;
+        }
         let s = self.longest - level;
         let mut fixed = 0i64;
         let empty = Choice { value: 0, p: 0, q: 0 };
@@ -304,6 +307,36 @@ impl AperiodicSearch {
         }
         x[j][p] = old_p;
         x[j][q] = old_q;
+    }
+
+    /// The identity at every shift gives Σⱼ wⱼ|Xⱼ(z)|² = Σⱼ wⱼLⱼ on the unit circle; at z = 1
+    /// and z = −1 that is a weighted sum of squares of (alternating) row sums. With some entries
+    /// unset each sum lies in an interval; if even the smallest squares overshoot, no
+    /// completion exists. It prunes the deep levels, where few entries are left.
+    fn sums_can_fit(&self, x: &[Vec<i8>]) -> bool {
+        let total: i64 = self.weights.iter().zip(&self.lens).map(|(w, &l)| w * l as i64).sum();
+        for alternating in [false, true] {
+            let mut least = 0i64;
+            for (j, y) in x.iter().enumerate() {
+                let (mut sum, mut free) = (0i64, 0i64);
+                for (i, &e) in y.iter().enumerate() {
+                    if e == 0 {
+                        free += 1;
+                    } else if alternating && i % 2 == 1 {
+                        sum -= e as i64;
+                    } else {
+                        sum += e as i64;
+                    }
+                }
+                // The final sum is in [sum − free, sum + free], of the parity of the length.
+                let low = if sum.abs() <= free { (self.lens[j] % 2) as i64 } else { sum.abs() - free };
+                least += self.weights[j] * low * low;
+            }
+            if least > total {
+                return false;
+            }
+        }
+        true
     }
 
     fn report(&self, x: &[Vec<i8>]) -> Option<String> {

@@ -65,6 +65,9 @@ struct Decomposition {
     outer: [usize; 2],
     inner: [usize; 2],
     rows: [std::sync::Arc<Vec<Row>>; 4],
+    /// The outer rows that are least among their multiplier images: a multiplier applied to
+    /// all four moves any solution to one whose first outer row is such a leader.
+    leaders: Vec<u32>,
     table: OnceLock<Vec<(u64, u32, u32)>>,
 }
 
@@ -188,7 +191,7 @@ impl WilliamsonSearch {
             cache.push((s, r.clone()));
             r
         };
-        let decompositions = four_odd_squares(4 * m as i64)
+        let mut decompositions = four_odd_squares(4 * m as i64)
             .into_iter()
             .map(|abs| {
                 let sums = abs.map(|r| if (r - m as i64).rem_euclid(4) == 0 { r } else { -r });
@@ -201,9 +204,17 @@ impl WilliamsonSearch {
                 let q = [order[1], order[2]];
                 let size = |x: [usize; 2]| rows[x[0]].len() as u128 * rows[x[1]].len() as u128;
                 let (outer, inner) = if size(p) >= size(q) { (p, q) } else { (q, p) };
-                Decomposition { outer, inner, rows, table: OnceLock::new() }
+                let leaders = (0..rows[outer[0]].len() as u32).filter(|&i| is_leader(m, rows[outer[0]][i as usize].bits)).collect();
+                Decomposition { outer, inner, rows, leaders, table: OnceLock::new() }
             })
-            .collect();
+            .collect::<Vec<_>>();
+        // Cheapest first (pairs to build on both sides), so a limited run reaches an easy
+        // solution before an expensive table.
+        let cost = |d: &Decomposition| {
+            let n = |i: usize| d.rows[i].len() as u128;
+            d.leaders.len() as u128 * n(d.outer[1]) + n(d.inner[0]) * n(d.inner[1])
+        };
+        decompositions.sort_by_key(cost);
         WilliamsonSearch { m, mode, sign_lemma, decompositions }
     }
 
@@ -246,19 +257,7 @@ impl WilliamsonSearch {
             if gcd(k, m) != 1 {
                 continue;
             }
-            let mut image = rows.map(|bits| {
-                let mut out = 0u64;
-                for i in 1..=h {
-                    let mut j = (k * i) % m;
-                    if j > h {
-                        j = m - j;
-                    }
-                    if bits >> (j - 1) & 1 == 1 {
-                        out |= 1 << (i - 1);
-                    }
-                }
-                out
-            });
+            let mut image = rows.map(|bits| multiply(m, bits, k));
             image.sort_unstable();
             if best.is_none_or(|b| image < b) {
                 best = Some(image);
@@ -266,6 +265,27 @@ impl WilliamsonSearch {
         }
         best.unwrap_or(rows)
     }
+}
+
+/// The row's image under the multiplier x ↦ kx.
+fn multiply(m: usize, bits: u64, k: usize) -> u64 {
+    let h = (m - 1) / 2;
+    let mut out = 0u64;
+    for i in 1..=h {
+        let mut j = (k * i) % m;
+        if j > h {
+            j = m - j;
+        }
+        if bits >> (j - 1) & 1 == 1 {
+            out |= 1 << (i - 1);
+        }
+    }
+    out
+}
+
+/// True when no multiplier gives a smaller row.
+fn is_leader(m: usize, bits: u64) -> bool {
+    (2..=(m - 1) / 2).filter(|&k| gcd(k, m) == 1).all(|k| multiply(m, bits, k) >= bits)
 }
 
 fn gcd(a: usize, b: usize) -> usize {
@@ -305,7 +325,7 @@ impl Search for WilliamsonSearch {
     fn units(&self) -> Vec<Unit> {
         let mut out = Vec::new();
         for (k, d) in self.decompositions.iter().enumerate() {
-            let n = d.rows[d.outer[0]].len();
+            let n = d.leaders.len();
             if d.rows.iter().any(|r| r.is_empty()) {
                 continue;
             }
@@ -326,7 +346,7 @@ impl Search for WilliamsonSearch {
         let (p, q) = (&d.rows[d.inner[0]], &d.rows[d.inner[1]]);
         let full = mask(self.h());
         let mut out = Vec::new();
-        for xi in &x[u.from..u.to] {
+        for xi in d.leaders[u.from..u.to].iter().map(|&i| &x[i as usize]) {
             for yj in y.iter() {
                 if !pair_fits(self.m, xi, yj) {
                     continue;
