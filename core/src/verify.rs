@@ -159,9 +159,9 @@ pub fn verify_with_cap(m: &Matrix, cap: usize) -> Report {
     finish_report(m, tally)
 }
 
-fn finish_report(m: &Matrix, mut tally: PairTally) -> Report {
-    tally.pairs.sort_unstable_by_key(|p| (p.i, p.j));
-    tally.pairs.truncate(tally.cap);
+fn finish_report(m: &Matrix, tally: PairTally) -> Report {
+    let total = tally.total;
+    let pairs = tally.into_pairs();
     let mut failures = Vec::new();
     if !m.is_square() {
         failures.push(Failure::NotSquare);
@@ -169,7 +169,7 @@ fn finish_report(m: &Matrix, mut tally: PairTally) -> Report {
     if !order_possible(m.rows()) {
         failures.push(Failure::ImpossibleOrder);
     }
-    if tally.total > 0 {
+    if total > 0 {
         failures.push(Failure::RowsNotOrthogonal);
     }
     Report {
@@ -179,8 +179,8 @@ fn finish_report(m: &Matrix, mut tally: PairTally) -> Report {
         failures,
         sha256: matrix_id(m),
         properties: properties(m),
-        failing_pairs: tally.pairs,
-        failing_pairs_total: tally.total,
+        failing_pairs: pairs,
+        failing_pairs_total: total,
         check: format!("{CHECK_NAME}/v{CHECK_VERSION}"),
         kernel: kernel_name().to_string(),
     }
@@ -191,101 +191,117 @@ pub fn properties(m: &Matrix) -> Properties {
     let n = m.rows();
     let square = m.is_square();
     let normalized = n > 0 && m.row_negatives(0) == 0 && (0..n).all(|i| !m.is_negative(i, 0));
+    let t = m.transpose();
     let (symmetric, skew) = if square {
-        let t = m.transpose();
         let symmetric = t == *m;
         // Skew: the diagonal is +1, and entry (i,j) is the negation of (j,i) off the diagonal,
         // so H ⊕ Hᵀ is all ones except on the diagonal.
+        let tail = crate::matrix::tail_mask(n);
         let skew = (0..n).all(|i| {
             let (a, b) = (m.row_words(i), t.row_words(i));
-            let tail = crate::matrix::tail_mask(n);
-            a.iter().zip(b).enumerate().all(|(k, (x, y))| {
-                let mut want = if k + 1 == a.len() { tail } else { u64::MAX };
-                if k == i / 64 {
-                    want &= !(1u64 << (i % 64));
-                }
-                (x ^ y) == want
-            }) && !m.is_negative(i, i)
+            !m.is_negative(i, i)
+                && a.iter().zip(b).enumerate().all(|(k, (x, y))| {
+                    let mut want = if k + 1 == a.len() { tail } else { u64::MAX };
+                    if k == i / 64 {
+                        want &= !(1u64 << (i % 64));
+                    }
+                    (x ^ y) == want
+                })
         });
         (symmetric, skew)
     } else {
         (false, false)
     };
-    let row_sums: Vec<i64> = (0..n).map(|i| m.cols() as i64 - 2 * m.row_negatives(i) as i64).collect();
+    let sum = |x: &Matrix, i: usize| x.cols() as i64 - 2 * x.row_negatives(i) as i64;
+    let row_sums: Vec<i64> = (0..n).map(|i| sum(m, i)).collect();
     let excess = row_sums.iter().sum();
-    let regular = if n == 0 || row_sums.windows(2).any(|w| w[0] != w[1]) {
-        false
-    } else {
-        let t = m.transpose();
-        let c0 = t.cols() as i64 - 2 * t.row_negatives(0) as i64;
-        c0 == row_sums[0] && (0..t.rows()).all(|j| t.cols() as i64 - 2 * t.row_negatives(j) as i64 == c0)
-    };
+    let regular = n > 0 && row_sums.iter().all(|&r| r == row_sums[0]) && (0..t.rows()).all(|j| sum(&t, j) == row_sums[0]);
     Properties { normalized, symmetric, skew, regular, excess }
 }
 
 /// The running count of failing pairs.
 ///
-/// It keeps, for each row i, its first `cap` failing partners j (visited in increasing j), and
-/// trims to the `cap` smallest pairs after each block row, so the kept list is exactly the first
-/// `cap` failing pairs in (i, j) order however the block rows are spread over threads.
+/// It keeps the `cap` smallest failing pairs in (i, j) order in a bounded max-heap, so the
+/// kept list is exact however the work is split between threads, and memory stays O(cap)
+/// even when every pair fails.
 struct PairTally {
     cap: usize,
-    pairs: Vec<FailingPair>,
+    heap: std::collections::BinaryHeap<(usize, usize, i64)>,
     total: u64,
     stop_at_first: bool,
-    row_kept: [usize; T],
 }
 
 impl PairTally {
     fn new(cap: usize) -> PairTally {
-        PairTally { cap, pairs: Vec::new(), total: 0, stop_at_first: false, row_kept: [0; T] }
+        PairTally { cap, heap: std::collections::BinaryHeap::new(), total: 0, stop_at_first: false }
     }
     #[inline]
     fn record(&mut self, i: usize, j: usize, dot: i64) {
         self.total += 1;
-        let kept = &mut self.row_kept[i % T];
-        if *kept < self.cap {
-            *kept += 1;
-            self.pairs.push(FailingPair { i, j, dot });
-        }
-    }
-    fn end_block_row(&mut self) {
-        self.row_kept = [0; T];
-        if self.pairs.len() > self.cap {
-            self.pairs.sort_unstable_by_key(|p| (p.i, p.j));
-            self.pairs.truncate(self.cap);
+        if self.heap.len() < self.cap {
+            self.heap.push((i, j, dot));
+        } else if let Some(top) = self.heap.peek() {
+            if (i, j) < (top.0, top.1) {
+                self.heap.pop();
+                self.heap.push((i, j, dot));
+            }
         }
     }
     fn merge(&mut self, other: PairTally) {
-        self.total += other.total;
-        self.pairs.extend(other.pairs);
-        self.end_block_row();
+        let total = self.total + other.total;
+        for (i, j, d) in other.heap {
+            self.record(i, j, d);
+        }
+        self.total = total;
     }
     fn done(&self) -> bool {
         self.stop_at_first && self.total > 0
+    }
+    fn into_pairs(self) -> Vec<FailingPair> {
+        let mut v: Vec<FailingPair> = self.heap.into_iter().map(|(i, j, dot)| FailingPair { i, j, dot }).collect();
+        v.sort_unstable_by_key(|p| (p.i, p.j));
+        v
     }
 }
 
 /// Rows per tile side.
 const T: usize = 4;
 
+/// Rows per panel: the panel of rows j is kept hot in the L1 cache (about 32 KiB) while every
+/// tile of rows i above it streams past, so each word is fetched from memory about n/P times
+/// instead of n/4 times.
+fn panel_rows(m: &Matrix) -> usize {
+    let row_bytes = (m.words_per_row() * 8).max(8);
+    ((32 * 1024 / row_bytes) / T * T).clamp(T, 1024)
+}
+
+/// The number of row pairs (i, j), i < j, with j in panel `p`.
+fn panel_pairs(n: usize, panel: usize, p: usize) -> u64 {
+    let (j0, j1) = (p * panel, ((p + 1) * panel).min(n));
+    (j0..j1).map(|j| j as u64).sum()
+}
+
 /// Visits every pair i < j of rows once, recording those whose popcount is not n/2.
 fn gram_pass(m: &Matrix, tally: &mut PairTally) {
-    let blocks = m.rows().div_ceil(T);
+    let panel = panel_rows(m);
+    let panels = m.rows().div_ceil(panel);
     #[cfg(not(target_arch = "wasm32"))]
     {
         // Enough work to be worth a second thread: about 2·10⁶ word products.
-        if blocks > 1 && (m.rows() * m.rows() / 2) * m.words_per_row() > 2_000_000 {
+        if panels > 1 && (m.rows() * m.rows() / 2) * m.words_per_row() > 2_000_000 {
             use rayon::prelude::*;
             let stop = tally.stop_at_first;
             let cap = tally.cap;
-            let parts: Vec<PairTally> = (0..blocks)
+            // Later panels hold more pairs; hand them out first so the threads finish together.
+            let parts: Vec<PairTally> = (0..panels)
+                .rev()
+                .collect::<Vec<_>>()
                 .into_par_iter()
-                .map(|bi| {
+                .with_max_len(1)
+                .map(|p| {
                     let mut t = PairTally::new(cap);
                     t.stop_at_first = stop;
-                    block_row(m, bi, &mut t);
-                    t.end_block_row();
+                    panel_pass(m, panel, p, &mut t);
                     t
                 })
                 .collect();
@@ -295,45 +311,48 @@ fn gram_pass(m: &Matrix, tally: &mut PairTally) {
             return;
         }
     }
-    for bi in 0..blocks {
-        block_row(m, bi, tally);
-        tally.end_block_row();
+    for p in 0..panels {
+        panel_pass(m, panel, p, tally);
         if tally.done() {
             return;
         }
     }
 }
 
-/// All pairs (i, j) with i in block row `bi` and j > i.
-fn block_row(m: &Matrix, bi: usize, tally: &mut PairTally) {
+/// All pairs (i, j) with i < j and j in panel `p` (rows p·panel .. (p+1)·panel).
+fn panel_pass(m: &Matrix, panel: usize, p: usize, tally: &mut PairTally) {
     let n = m.rows();
-    let i0 = bi * T;
-    let full_i = i0 + T <= n;
-    let mut j0 = i0;
-    while j0 < n {
-        if full_i && j0 + T <= n {
-            let mut acc = [[0u32; T]; T];
-            tile(m, i0, j0, &mut acc);
-            for (a, row) in acc.iter().enumerate() {
-                for (b, &p) in row.iter().enumerate() {
-                    let (i, j) = (i0 + a, j0 + b);
-                    if j > i {
-                        check_pair(m, i, j, p, tally);
+    let (j_lo, j_hi) = (p * panel, ((p + 1) * panel).min(n));
+    let mut i0 = 0;
+    while i0 < j_hi {
+        let full_i = i0 + T <= n;
+        let mut j0 = j_lo.max(i0 / T * T);
+        while j0 < j_hi {
+            if full_i && j0 + T <= j_hi {
+                let mut acc = [[0u32; T]; T];
+                tile(m, i0, j0, &mut acc);
+                for (a, row) in acc.iter().enumerate() {
+                    for (b, &pc) in row.iter().enumerate() {
+                        let (i, j) = (i0 + a, j0 + b);
+                        if j > i {
+                            check_pair(m, i, j, pc, tally);
+                        }
+                    }
+                }
+            } else {
+                for i in i0..(i0 + T).min(n) {
+                    for j in j0.max(i + 1)..(j0 + T).min(j_hi) {
+                        let pc = m.row_words(i).iter().zip(m.row_words(j)).map(|(x, y)| (x ^ y).count_ones()).sum();
+                        check_pair(m, i, j, pc, tally);
                     }
                 }
             }
-        } else {
-            for i in i0..(i0 + T).min(n) {
-                for j in j0.max(i + 1)..(j0 + T).min(n) {
-                    let p = m.row_words(i).iter().zip(m.row_words(j)).map(|(x, y)| (x ^ y).count_ones()).sum();
-                    check_pair(m, i, j, p, tally);
-                }
-            }
+            j0 += T;
         }
         if tally.done() {
             return;
         }
-        j0 += T;
+        i0 += T;
     }
 }
 
@@ -429,9 +448,7 @@ mod x86 {
             2 => Level::Popcnt,
             3 => Level::Avx512,
             _ => {
-                let l = if std::env::var_os("HADAMARD_KERNEL").is_some_and(|v| v == "scalar") {
-                    Level::Baseline
-                } else if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
+                let l = if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
                     Level::Avx512
                 } else if is_x86_feature_detected!("popcnt") {
                     Level::Popcnt
@@ -473,31 +490,58 @@ mod x86 {
     pub unsafe fn tile_avx512(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
         let w = m.words_per_row();
         let bits = m.words().as_ptr();
-        let row = |i: usize| bits.add(i * w);
+        let row = |i: usize| bits.add(i * w) as *const i64;
         let (a0, a1, a2, a3) = (row(i0), row(i0 + 1), row(i0 + 2), row(i0 + 3));
         let (b0, b1, b2, b3) = (row(j0), row(j0 + 1), row(j0 + 2), row(j0 + 3));
         let z = _mm512_setzero_si512();
         let mut s = [z; 16];
-        let mut k = 0;
-        while k < w {
-            let left = w - k;
-            let mask: __mmask8 = if left >= 8 { 0xff } else { (1u8 << left) - 1 };
-            let ld = |p: *const u64| _mm512_maskz_loadu_epi64(mask, p.add(k) as *const i64);
-            let x = [ld(a0), ld(a1), ld(a2), ld(a3)];
-            let y = [ld(b0), ld(b1), ld(b2), ld(b3)];
-            for r in 0..T {
-                for c in 0..T {
-                    let d = _mm512_xor_si512(x[r], y[c]);
-                    s[r * T + c] = _mm512_add_epi64(s[r * T + c], _mm512_popcnt_epi64(d));
+        macro_rules! step {
+            ($ld:expr) => {{
+                let x = [$ld(a0), $ld(a1), $ld(a2), $ld(a3)];
+                let y = [$ld(b0), $ld(b1), $ld(b2), $ld(b3)];
+                for r in 0..T {
+                    for c in 0..T {
+                        let d = _mm512_xor_si512(x[r], y[c]);
+                        s[r * T + c] = _mm512_add_epi64(s[r * T + c], _mm512_popcnt_epi64(d));
+                    }
                 }
-            }
+            }};
+        }
+        let full = w / 8 * 8;
+        let mut k = 0;
+        while k < full {
+            step!(|p: *const i64| _mm512_loadu_si512(p.add(k) as *const _));
             k += 8;
         }
+        if k < w {
+            let mask: __mmask8 = (1u8 << (w - k)) - 1;
+            step!(|p: *const i64| _mm512_maskz_loadu_epi64(mask, p.add(k)));
+        }
+        // Sixteen horizontal sums by a transposing tree: 8 vectors become one vector of their
+        // 8 sums in 21 instructions, instead of a full reduction each.
+        let lo = hsum8([s[0], s[1], s[2], s[3], s[4], s[5], s[6], s[7]]);
+        let hi = hsum8([s[8], s[9], s[10], s[11], s[12], s[13], s[14], s[15]]);
+        let mut out = [0u64; 16];
+        _mm512_storeu_si512(out.as_mut_ptr() as *mut _, lo);
+        _mm512_storeu_si512(out.as_mut_ptr().add(8) as *mut _, hi);
         for r in 0..T {
             for c in 0..T {
-                acc[r][c] = _mm512_reduce_add_epi64(s[r * T + c]) as u32;
+                acc[r][c] = out[r * T + c] as u32;
             }
         }
+    }
+
+    /// Lane k of the result is the sum of the eight lanes of v[k].
+    #[inline]
+    #[target_feature(enable = "avx512f")]
+    unsafe fn hsum8(v: [__m512i; 8]) -> __m512i {
+        let pair = |a: __m512i, b: __m512i| _mm512_add_epi64(_mm512_unpacklo_epi64(a, b), _mm512_unpackhi_epi64(a, b));
+        let (p01, p23, p45, p67) = (pair(v[0], v[1]), pair(v[2], v[3]), pair(v[4], v[5]), pair(v[6], v[7]));
+        let quad = |a: __m512i, b: __m512i| {
+            _mm512_add_epi64(_mm512_shuffle_i64x2::<0b10_00_10_00>(a, b), _mm512_shuffle_i64x2::<0b11_01_11_01>(a, b))
+        };
+        let (q0, q1) = (quad(p01, p23), quad(p45, p67));
+        quad(q0, q1)
     }
 }
 
@@ -532,8 +576,9 @@ pub fn force_kernel(name: &str) -> bool {
 /// report as [`verify`] would.
 pub struct Progressive<'a> {
     m: &'a Matrix,
-    next_block: usize,
-    blocks: usize,
+    panel: usize,
+    next_panel: usize,
+    panels: usize,
     tally: PairTally,
     pairs_done: u64,
 }
@@ -541,24 +586,22 @@ pub struct Progressive<'a> {
 impl<'a> Progressive<'a> {
     /// Starts checking `m`.
     pub fn new(m: &'a Matrix, cap: usize) -> Progressive<'a> {
-        Progressive { m, next_block: 0, blocks: m.rows().div_ceil(T), tally: PairTally::new(cap), pairs_done: 0 }
+        let panel = panel_rows(m);
+        Progressive { m, panel, next_panel: 0, panels: m.rows().div_ceil(panel), tally: PairTally::new(cap), pairs_done: 0 }
     }
 
-    /// Checks block rows until about `budget` row pairs have been done; returns the fraction
-    /// of all pairs done so far (1.0 when finished).
+    /// Checks panels until about `budget` row pairs have been done; returns the fraction of
+    /// all pairs done so far (1.0 when finished).
     pub fn step(&mut self, budget: u64) -> f64 {
         let n = self.m.rows() as u64;
         let total = (n * n.saturating_sub(1) / 2).max(1);
         let mut spent = 0;
-        while self.next_block < self.blocks && spent < budget {
-            block_row(self.m, self.next_block, &mut self.tally);
-            self.tally.end_block_row();
-            let i0 = (self.next_block * T) as u64;
-            let rows_here = (n - i0).min(T as u64);
-            let pairs = rows_here * (n - i0) - rows_here * (rows_here + 1) / 2;
+        while self.next_panel < self.panels && spent < budget {
+            panel_pass(self.m, self.panel, self.next_panel, &mut self.tally);
+            let pairs = panel_pairs(self.m.rows(), self.panel, self.next_panel);
             spent += pairs;
             self.pairs_done += pairs;
-            self.next_block += 1;
+            self.next_panel += 1;
         }
         if self.is_done() {
             1.0
@@ -569,7 +612,7 @@ impl<'a> Progressive<'a> {
 
     /// True when every pair has been checked.
     pub fn is_done(&self) -> bool {
-        self.next_block >= self.blocks
+        self.next_panel >= self.panels
     }
 
     /// The report. Checks whatever is left first.
@@ -617,6 +660,39 @@ mod tests {
         assert_eq!(r.failing_pairs_total, 63);
         assert!(r.failing_pairs.iter().all(|p| p.i == 37 || p.j == 37));
         assert!(r.failing_pairs.iter().all(|p| p.dot.abs() == 2));
+    }
+
+    #[test]
+    fn failing_pairs_match_a_naive_count() {
+        // Random ±1 matrices of awkward shapes, including ones spanning several panels.
+        let mut seed = 0x9e3779b97f4a7c15u64;
+        for &(n, cols) in &[(1, 1), (3, 3), (5, 7), (17, 17), (130, 130), (301, 64), (520, 8), (1030, 4)] {
+            let m = Matrix::from_fn(n, cols, |_, _| {
+                seed ^= seed << 13;
+                seed ^= seed >> 7;
+                seed ^= seed << 17;
+                seed & 1 == 1
+            });
+            let mut want = Vec::new();
+            for i in 0..n {
+                for j in i + 1..n {
+                    let d = m.row_dot(i, j);
+                    if d != 0 {
+                        want.push(FailingPair { i, j, dot: d });
+                    }
+                }
+            }
+            for kernel in ["scalar", "auto"] {
+                force_kernel(kernel);
+                let r = verify_with_cap(&m, 50);
+                assert_eq!(r.failing_pairs_total, want.len() as u64, "n={n} cols={cols}");
+                assert_eq!(r.failing_pairs, want[..want.len().min(50)].to_vec(), "n={n} cols={cols}");
+                let mut p = Progressive::new(&m, 50);
+                p.step(1);
+                assert_eq!(p.finish().failing_pairs_total, want.len() as u64);
+            }
+            force_kernel("auto");
+        }
     }
 
     #[test]
