@@ -4,7 +4,12 @@
 //! prints for people (or, with `--json`, for programs). Exit statuses follow
 //! `docs/cli.md`; usage errors exit 2.
 
+mod api;
+mod app;
+mod catalogue;
 mod cli;
+mod store;
+mod time;
 mod web_assets;
 
 use clap::{Parser, Subcommand};
@@ -24,6 +29,10 @@ enum Command {
     Verify(cli::verify::VerifyArgs),
     /// Convert a matrix between formats, optionally normalising it.
     Convert(cli::convert::ConvertArgs),
+    /// Run the web catalogue and its JSON API (default http://127.0.0.1:8080/).
+    Serve(cli::serve::ServeArgs),
+    /// Re-verify every matrix stored in a catalogue database; exit 1 if any fails.
+    Audit(cli::audit::AuditArgs),
 }
 
 fn main() -> ExitCode {
@@ -31,5 +40,7 @@ fn main() -> ExitCode {
     match cli.command {
         Command::Verify(a) => cli::verify::run(a),
         Command::Convert(a) => cli::convert::run(a),
+        Command::Serve(a) => cli::serve::run(a),
+        Command::Audit(a) => cli::audit::run(a),
     }
 }

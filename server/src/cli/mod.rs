@@ -1,6 +1,8 @@
 //! One module per command. Each parses its arguments (clap), calls `hadamard-core`, and prints.
 
+pub mod audit;
 pub mod convert;
 pub mod input;
 pub mod output;
+pub mod serve;
 pub mod verify;
