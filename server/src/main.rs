@@ -4,7 +4,12 @@
 //! prints for people (or, with `--json`, for programs). Exit statuses follow
 //! `docs/cli.md`; usage errors exit 2.
 
+mod api;
+mod app;
+mod catalogue;
 mod cli;
+mod store;
+mod time;
 mod web_assets;
 
 use clap::{Parser, Subcommand};
@@ -33,6 +38,10 @@ enum Command {
     /// For a dimension d: every d = 2^a·m₀ through a known order m₀; or the smallest known
     /// order ≥ k (for balanced repeated replication with k strata).
     Advise(cli::advise::AdviseArgs),
+    /// Run the web catalogue and its JSON API (default http://127.0.0.1:8080/).
+    Serve(cli::serve::ServeArgs),
+    /// Re-verify every matrix stored in a catalogue database; exit 1 if any fails.
+    Audit(cli::audit::AuditArgs),
 }
 
 fn main() -> ExitCode {
@@ -44,5 +53,7 @@ fn main() -> ExitCode {
         Command::Build(a) => cli::build::run(a),
         Command::Coverage(a) => cli::coverage::run(a),
         Command::Advise(a) => cli::advise::run(a),
+        Command::Serve(a) => cli::serve::run(a),
+        Command::Audit(a) => cli::audit::run(a),
     }
 }

@@ -1,6 +1,7 @@
 //! One module per command. Each parses its arguments (clap), calls `hadamard-core`, and prints.
 
 pub mod advise;
+pub mod audit;
 pub mod build;
 pub mod convert;
 pub mod coverage;
@@ -8,4 +9,5 @@ pub mod input;
 pub mod output;
 pub mod progress;
 pub mod routes;
+pub mod serve;
 pub mod verify;
