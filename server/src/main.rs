@@ -24,6 +24,8 @@ enum Command {
     Verify(cli::verify::VerifyArgs),
     /// Convert a matrix between formats, optionally normalising it.
     Convert(cli::convert::ConvertArgs),
+    /// Search for sequence data (Williamson, Golay, base, Turyn-type, Goethals–Seidel).
+    Search(cli::search::SearchArgs),
 }
 
 fn main() -> ExitCode {
@@ -31,5 +33,6 @@ fn main() -> ExitCode {
     match cli.command {
         Command::Verify(a) => cli::verify::run(a),
         Command::Convert(a) => cli::convert::run(a),
+        Command::Search(a) => cli::search::run(a),
     }
 }

@@ -3,4 +3,5 @@
 pub mod convert;
 pub mod input;
 pub mod output;
+pub mod search;
 pub mod verify;
