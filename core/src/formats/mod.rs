@@ -102,7 +102,7 @@ pub enum Format {
 }
 
 impl Format {
-    /// Every format, in the order detection considers them last to first.
+    /// Every format.
     pub const ALL: [Format; 5] = [
         Format::Pm,
         Format::Int,

@@ -59,10 +59,14 @@ pub(super) fn write(
     marked_rows: &[usize],
     out: &mut dyn io::Write,
 ) -> io::Result<()> {
-    let (rows, cols) = (m.rows(), m.cols());
+    // An empty matrix is drawn as a single +1 pixel: PNG has no empty pictures.
+    let (rows, cols) = if m.rows() == 0 || m.cols() == 0 {
+        (0, 0)
+    } else {
+        (m.rows(), m.cols())
+    };
     let (block, scale) = layout(rows, cols, scale);
     let (brows, bcols) = (rows.div_ceil(block), cols.div_ceil(block));
-    // An empty matrix is drawn as a single +1 pixel: PNG has no empty pictures.
     let (width, height) = ((bcols * scale).max(1), (brows * scale).max(1));
     let mut marked = vec![false; rows];
     for &r in marked_rows {
@@ -79,7 +83,7 @@ pub(super) fn write(
     let mut w = enc.write_header().map_err(to_io)?;
     let mut s = w.stream_writer().map_err(to_io)?;
     let mut line = vec![0u8; width];
-    if rows == 0 || cols == 0 {
+    if rows == 0 {
         s.write_all(&line)?;
     }
     let mut counts = vec![0usize; bcols];

@@ -155,7 +155,12 @@ fn png_pixels_are_the_entries() {
             assert_eq!(buf[y * info.line_size + x], want, "pixel ({x}, {y})");
         }
     }
-    for m in [Matrix::ones(0, 0), pseudo(1, 1, 1)] {
+    for m in [
+        Matrix::ones(0, 0),
+        Matrix::ones(3, 0),
+        Matrix::ones(0, 3),
+        pseudo(1, 1, 1),
+    ] {
         let mut out = Vec::new();
         write(
             &m,
@@ -165,9 +170,11 @@ fn png_pixels_are_the_entries() {
             },
             &mut out,
         );
-        assert!(png::Decoder::new(std::io::Cursor::new(&out))
+        let mut r = png::Decoder::new(std::io::Cursor::new(&out))
             .read_info()
-            .is_ok());
+            .unwrap();
+        let mut buf = vec![0; r.output_buffer_size()];
+        assert!(r.next_frame(&mut buf).is_ok(), "{m:?}");
     }
 }
 

@@ -115,9 +115,14 @@ pub(super) fn read(body: &[u8], kind: Kind, opts: &ReadOptions) -> Result<Parsed
             .iter()
             .rposition(|&c| !is_blank(c))
             .map_or(0, |k| k + 1);
-        if kind != Kind::Int && first == 0 {
+        if first == 0 {
             let row = &text[..last];
-            if b.try_row(row.len(), |out| pack(kind, row, one_is_negative, out)) {
+            let packed = match (kind, b.cols()) {
+                (Kind::Int, Some(c)) => b.try_row(c, |out| pack_int(row, c, out)),
+                (Kind::Int, None) => false,
+                _ => b.try_row(row.len(), |out| pack(kind, row, one_is_negative, out)),
+            };
+            if packed {
                 continue;
             }
         }
@@ -334,6 +339,30 @@ fn pack(kind: Kind, row: &[u8], one_is_negative: bool, out: &mut [u64]) -> bool 
     }
 }
 
+/// The fast path for `int`: exactly `cols` entries `1` or `-1`, each followed by one comma,
+/// space or tab, except the last. False on anything else (the general path then reads it).
+fn pack_int(row: &[u8], cols: usize, out: &mut [u64]) -> bool {
+    let (mut i, mut j) = (0, 0);
+    loop {
+        let negative = match row.get(i) {
+            Some(b'1') => false,
+            Some(b'-') if row.get(i + 1) == Some(&b'1') => true,
+            _ => return false,
+        };
+        i += 1 + usize::from(negative);
+        if j >= cols {
+            return false;
+        }
+        out[j / 64] |= u64::from(negative) << (j % 64);
+        j += 1;
+        match row.get(i) {
+            None => return j == cols,
+            Some(b',' | b' ' | b'\t') => i += 1,
+            Some(_) => return false,
+        }
+    }
+}
+
 const LANES: u64 = 0x0101_0101_0101_0101;
 
 /// Eight bytes at a time: each byte XOR `base` must be 0 or `diff` (whose lowest set bit is
@@ -479,6 +508,27 @@ mod tests {
                     );
                 }
             }
+        }
+    }
+
+    #[test]
+    fn int_fast_path() {
+        let mut out = [0u64; 1];
+        assert!(pack_int(b"1,-1 1\t-1", 4, &mut out));
+        assert_eq!(out[0], 0b1010);
+        for bad in [
+            &b"1,-1,1"[..],
+            b"1,-1,1,-1,",
+            b"1,,-1,1,1",
+            b"1,-1,1,+1",
+            b"1,-1,1,-1,1",
+            b"1.0,1,1,1",
+        ] {
+            assert!(
+                !pack_int(bad, 4, &mut [0u64; 1]),
+                "{}",
+                String::from_utf8_lossy(bad)
+            );
         }
     }
 

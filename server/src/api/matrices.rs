@@ -1,0 +1,276 @@
+//! `/api/matrices`: upload, metadata, downloads and single rows of stored matrices.
+
+use super::helpers::{blocking, heavy, if_none_match, immutable_headers, not_modified, parse_id, truncate, ApiError, ApiResult};
+use crate::app::AppState;
+use crate::catalogue::{Equivalence, Ingested, UploadError, UploadOutcome};
+use crate::store::matrices::{self, MatrixRecord, Origin};
+use axum::body::Body;
+use axum::extract::{Path, Query, State};
+use axum::http::{header, HeaderMap, HeaderValue, StatusCode};
+use axum::response::IntoResponse;
+use axum::Json;
+use hadamard_core::formats::{self, Format, ReadOptions, WriteFormat};
+use http_body_util::{BodyExt, LengthLimitError, Limited};
+use serde_json::{json, Value};
+use std::collections::HashMap;
+use std::sync::Arc;
+
+/// The download formats, as `?format=` names.
+pub const DOWNLOAD_FORMATS: &[&str] = &["pm", "csv", "bits", "json", "npy", "npy-f64", "npy-f64-scaled", "png"];
+
+/// `POST /api/matrices`: the raw body is a matrix file in any input format (or the one
+/// `?format=` forces; `?bits-minus=0` says `0` stands for −1 in `bits`). The server parses and
+/// runs the exact check itself. 201 stored now, 200 already stored, 422 not Hadamard (with
+/// the failing pairs) or with erased entries, 400 malformed (with the place), 413 too large.
+pub async fn upload(State(state): State<Arc<AppState>>, Query(q): Query<HashMap<String, String>>, headers: HeaderMap, body: Body) -> ApiResult {
+    let limit = state.config.max_body_bytes;
+    let too_large = || ApiError::new(StatusCode::PAYLOAD_TOO_LARGE, format!("the body is larger than this server's limit of {limit} bytes (--max-body)")).with("limit", limit);
+    // A declared length over the limit is refused before a byte of the body is read.
+    let declared = headers.get(header::CONTENT_LENGTH).and_then(|v| v.to_str().ok()).and_then(|v| v.trim().parse::<u64>().ok());
+    if declared.is_some_and(|d| d > limit as u64) {
+        return Err(too_large());
+    }
+    let mut opts = ReadOptions { max_order: state.config.max_order, ..ReadOptions::default() };
+    if let Some(f) = q.get("format") {
+        opts.format = Some(f.parse::<Format>().map_err(|_| ApiError::bad_request(format!("unknown format `{}`: use pm, int (csv), bits, json or npy", truncate(f, 40))))?);
+    }
+    match q.get("bits-minus").map(String::as_str) {
+        None | Some("1") => {}
+        Some("0") => opts.bits_one_is_negative = false,
+        Some(_) => return Err(ApiError::bad_request("bits-minus must be 0 or 1: the digit that stands for −1")),
+    }
+    let bytes = match Limited::new(body, limit).collect().await {
+        Ok(c) => c.to_bytes(),
+        Err(e) if e.downcast_ref::<LengthLimitError>().is_some() => return Err(too_large()),
+        Err(e) => return Err(ApiError::bad_request(format!("could not read the request body: {e}"))),
+    };
+    if bytes.is_empty() {
+        return Err(ApiError::bad_request("the body is empty: send the matrix file as the raw request body"));
+    }
+    let outcome = heavy(&state, move |c| c.upload(&bytes, &opts)).await?;
+    match outcome {
+        Ok(UploadOutcome::Stored(ing)) => {
+            let status = if ing.created { StatusCode::CREATED } else { StatusCode::OK };
+            let location = HeaderValue::from_str(&format!("/m/{}", ing.record.id)).unwrap_or_else(|_| HeaderValue::from_static("/"));
+            if ing.created {
+                tracing::info!(id = %ing.record.id, order = ing.record.order, "stored an uploaded matrix");
+            }
+            Ok((status, [(header::LOCATION, location)], Json(upload_json(&ing))).into_response())
+        }
+        Ok(UploadOutcome::NotHadamard(report)) => {
+            let mut body = serde_json::to_value(&*report).unwrap_or(Value::Null);
+            if let Value::Object(o) = &mut body {
+                o.insert("error".into(), json!(not_hadamard_message(&report)));
+                o.insert("failing_pairs_index_base".into(), json!(0));
+            }
+            Err(ApiError { status: StatusCode::UNPROCESSABLE_ENTITY, body })
+        }
+        Ok(UploadOutcome::HasErasures { order, erased }) => Err(ApiError::new(
+            StatusCode::UNPROCESSABLE_ENTITY,
+            format!("the matrix has {erased} erased entries (?); only complete ±1 matrices are stored (`hadamard verify` says whether they can be completed)"),
+        )
+        .with("order", order)
+        .with("erased_entries", erased)),
+        Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string()).with("kind", "malformed").with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
+        Err(UploadError::Store(e)) => Err(e.into()),
+    }
+}
+
+fn not_hadamard_message(r: &hadamard_core::verify::Report) -> String {
+    if r.order != r.cols {
+        format!("not a Hadamard matrix: it is {}×{}, not square", r.order, r.cols)
+    } else if r.failing_pairs_total > 0 {
+        let k = r.failing_pairs_total;
+        format!("not a Hadamard matrix: {k} row pair{} not orthogonal", if k == 1 { " is" } else { "s are" })
+    } else {
+        format!("not a Hadamard matrix: no Hadamard matrix of order {} exists (it is not 1, 2 or a multiple of 4)", r.order)
+    }
+}
+
+fn upload_json(ing: &Ingested) -> Value {
+    let r = &ing.record;
+    json!({
+        "id": r.id,
+        "url": format!("/m/{}", r.id),
+        "api_url": format!("/api/matrices/{}", r.id),
+        "order": r.order,
+        "stored_now": ing.created,
+        "properties": raw_json(&r.properties_json),
+        "provenance": provenance_json(r),
+        "verification": verification_json(r),
+        "equivalence": equivalence_json(&ing.equivalence),
+    })
+}
+
+fn equivalence_json(e: &Equivalence) -> Value {
+    let Some(kind) = e.kind else {
+        return json!({
+            "invariant": null,
+            "note": format!("equivalence was not examined: the 4-profile is computed only up to order {}", crate::catalogue::invariant::PROFILE_MAX_ORDER),
+        });
+    };
+    let note = if e.compared_with == 0 {
+        "no other stored matrix of this order to compare with".to_owned()
+    } else if e.matches == 0 {
+        format!("its {kind} differs from that of all {} other stored matrices of this order, which proves it inequivalent to each of them", e.compared_with)
+    } else {
+        format!(
+            "possibly equivalent to {} stored matrices of this order: they share its {kind}, which does not prove equivalence; it is inequivalent to the other {}",
+            e.matches,
+            e.compared_with - e.matches
+        )
+    };
+    json!({
+        "invariant": kind,
+        "compared_with": e.compared_with,
+        "possibly_equivalent_to": e.possibly_equivalent_to,
+        "possibly_equivalent_count": e.matches,
+        "proven_new": e.matches == 0,
+        "note": note,
+    })
+}
+
+fn raw_json(text: &str) -> Value {
+    serde_json::from_str(text).unwrap_or(Value::Null)
+}
+
+fn provenance_json(r: &MatrixRecord) -> Value {
+    match r.origin {
+        Origin::Constructed => json!({"kind": "constructed", "constructed_at": r.created_at, "recipe": r.recipe_json.as_deref().map(raw_json)}),
+        Origin::Uploaded => json!({"kind": "uploaded", "uploaded_at": r.created_at, "received_format": r.received_format}),
+    }
+}
+
+fn verification_json(r: &MatrixRecord) -> Value {
+    json!({"check": r.check_name, "check_version": r.check_version, "kernel": r.kernel, "verified_at": r.verified_at})
+}
+
+/// The short form of a stored matrix, for listings.
+pub fn summary_json(r: &MatrixRecord) -> Value {
+    json!({
+        "id": r.id,
+        "url": format!("/m/{}", r.id),
+        "order": r.order,
+        "origin": r.origin.as_str(),
+        "created_at": r.created_at,
+        "properties": raw_json(&r.properties_json),
+    })
+}
+
+/// `GET /api/matrices/{id}`: order, properties, invariant, provenance, verification record,
+/// and the download links. 400 for a malformed id, 404 for one not stored.
+pub async fn show(State(state): State<Arc<AppState>>, Path(id): Path<String>) -> ApiResult {
+    let id = parse_id(&id)?.to_owned();
+    let key = id.clone();
+    let (rec, entry) = blocking(&state, move |c| c.store.read(|db| Ok((matrices::get(db, &key)?, matrices::catalogue_entry_of(db, &key)?)))).await??;
+    let Some(r) = rec else {
+        return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
+    };
+    let downloads: serde_json::Map<String, Value> = DOWNLOAD_FORMATS.iter().map(|f| ((*f).to_owned(), json!(format!("/api/matrices/{id}/download?format={f}")))).collect();
+    Ok(Json(json!({
+        "id": r.id,
+        "url": format!("/m/{}", r.id),
+        "order": r.order,
+        "properties": raw_json(&r.properties_json),
+        "invariant": r.invariant_kind.as_ref().map(|k| json!({"kind": k, "value": r.invariant.as_deref().map(raw_json)})),
+        "provenance": provenance_json(&r),
+        "catalogue_entry": entry.map(|(recipe, at)| json!({"order": r.order, "built_at": at, "recipe": raw_json(&recipe)})),
+        "verification": verification_json(&r),
+        "downloads": downloads,
+        "rows_url": format!("/api/matrices/{id}/rows/{{i}}"),
+    }))
+    .into_response())
+}
+
+/// A download format with its options, and the tag that tells its representation apart.
+fn download_format(q: &HashMap<String, String>) -> ApiResult<(WriteFormat, String)> {
+    let name = q.get("format").map(String::as_str).unwrap_or("pm");
+    let mut f: WriteFormat = name
+        .parse()
+        .map_err(|_| ApiError::bad_request(format!("unknown download format `{}`: use one of {}", truncate(name, 40), DOWNLOAD_FORMATS.join(", "))))?;
+    let tag = match &mut f {
+        WriteFormat::Bits { one_is_negative } => {
+            match q.get("minus").map(String::as_str) {
+                None | Some("1") => *one_is_negative = true,
+                Some("0") => *one_is_negative = false,
+                Some(_) => return Err(ApiError::bad_request("minus must be 0 or 1: the digit that stands for −1 in `bits`")),
+            }
+            format!("bits-minus{}", if *one_is_negative { 1 } else { 0 })
+        }
+        WriteFormat::Png { scale, .. } => {
+            if let Some(s) = q.get("scale") {
+                *scale = s.parse::<u32>().ok().filter(|s| *s <= 32).ok_or_else(|| ApiError::bad_request("scale must be an integer from 0 (automatic) to 32"))?;
+            }
+            format!("png-s{scale}")
+        }
+        other => other.name().to_owned(),
+    };
+    Ok((f, tag))
+}
+
+/// `GET /api/matrices/{id}/download?format=F`: the matrix in format F (`pm` by default;
+/// `bits` takes `minus=1|0`, `png` takes `scale=0..32`). Strong ETag `"<id>.<format>"`,
+/// immutable caching, 304 on `If-None-Match`.
+pub async fn download(State(state): State<Arc<AppState>>, Path(id): Path<String>, Query(q): Query<HashMap<String, String>>, headers: HeaderMap) -> ApiResult {
+    let id = parse_id(&id)?.to_owned();
+    let (format, tag) = download_format(&q)?;
+    let etag = format!("\"{id}.{tag}\"");
+    if if_none_match(&headers, &etag) {
+        let key = id.clone();
+        if blocking(&state, move |c| c.exists(&key)).await?? {
+            return Ok(not_modified(&etag));
+        }
+        return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
+    }
+    let key = id.clone();
+    let f = format.clone();
+    let out = heavy(&state, move |c| {
+        c.load(&key).map(|v| {
+            v.map(|v| {
+                let mut buf = Vec::new();
+                formats::write(v.matrix(), &f, &mut buf);
+                (v.order(), buf)
+            })
+        })
+    })
+    .await??;
+    let Some((n, bytes)) = out else {
+        return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
+    };
+    let filename = format!("hadamard-{n}-{}.{}", &id[..12], format.extension());
+    let mut resp = (StatusCode::OK, immutable_headers(&etag), Body::from(bytes)).into_response();
+    let h = resp.headers_mut();
+    h.insert(header::CONTENT_TYPE, HeaderValue::from_static(format.media_type()));
+    if let Ok(v) = HeaderValue::from_str(&format!("attachment; filename=\"{filename}\"")) {
+        h.insert(header::CONTENT_DISPOSITION, v);
+    }
+    if let WriteFormat::Bits { one_is_negative } = format {
+        h.insert("x-bits-minus", HeaderValue::from_static(if one_is_negative { "1" } else { "0" }));
+    }
+    Ok(resp)
+}
+
+/// `GET /api/matrices/{id}/rows/{i}`: row i (from 0) as `+`/`-` text and as ±1 values. For
+/// spreading codes and replicate weights, where one row is all that is needed.
+pub async fn row(State(state): State<Arc<AppState>>, Path((id, i)): Path<(String, String)>, headers: HeaderMap) -> ApiResult {
+    let id = parse_id(&id)?.to_owned();
+    let i: usize = i.parse().map_err(|_| ApiError::bad_request(format!("the row must be a non-negative integer (rows count from 0), not `{}`", truncate(&i, 40))))?;
+    let etag = format!("\"{id}.row{i}\"");
+    let key = id.clone();
+    let v = heavy(&state, move |c| c.load(&key)).await??;
+    let Some(v) = v else {
+        return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
+    };
+    let n = v.order();
+    if i >= n {
+        return Err(ApiError::not_found(format!("matrix {id} has order {n}: its rows are 0 to {}", n - 1)).with("order", n));
+    }
+    if if_none_match(&headers, &etag) {
+        return Ok(not_modified(&etag));
+    }
+    let m = v.matrix();
+    let pm: String = (0..n).map(|j| if m.is_negative(i, j) { '-' } else { '+' }).collect();
+    let values: Vec<i8> = (0..n).map(|j| m.get(i, j)).collect();
+    let body = json!({"id": id, "order": n, "row": i, "index_base": 0, "pm": pm, "values": values});
+    Ok((immutable_headers(&etag), Json(body)).into_response())
+}

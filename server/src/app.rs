@@ -1,0 +1,172 @@
+//! The server: configuration, shared state, the router with its limits and headers, and the
+//! run loop with graceful shutdown.
+
+use crate::api;
+use crate::catalogue::{seed, Catalogue};
+use crate::store::{Mode, Store, StoreError};
+use axum::extract::{Request, State};
+use axum::http::{header, HeaderValue, StatusCode};
+use axum::middleware::{self, Next};
+use axum::response::{IntoResponse, Response};
+use axum::routing::get;
+use axum::Router;
+use std::collections::HashMap;
+use std::net::SocketAddr;
+use std::path::PathBuf;
+use std::sync::{Arc, Mutex};
+use std::time::Duration;
+use tokio::sync::Semaphore;
+use tower_http::trace::TraceLayer;
+
+/// How the server runs.
+#[derive(Clone, Debug)]
+pub struct Config {
+    pub addr: SocketAddr,
+    pub db: PathBuf,
+    /// The largest request body, in bytes.
+    pub max_body_bytes: usize,
+    /// The largest order uploaded or built.
+    pub max_order: usize,
+    /// How long one request may take, body included.
+    pub request_timeout: Duration,
+    /// How many CPU-heavy jobs (parse and check, build, picture) run at once.
+    pub heavy_jobs: usize,
+    /// Reader connections to the database.
+    pub readers: usize,
+    /// The byte budget of the cache of verified matrices.
+    pub cache_bytes: usize,
+}
+
+/// What every handler can reach.
+pub struct AppState {
+    pub catalogue: Catalogue,
+    pub config: Config,
+    pub heavy: Arc<Semaphore>,
+    builds: Mutex<HashMap<usize, Arc<tokio::sync::Mutex<()>>>>,
+}
+
+impl AppState {
+    /// The lock that serialises builds of order n.
+    pub fn build_lock(&self, n: usize) -> Arc<tokio::sync::Mutex<()>> {
+        self.builds.lock().unwrap_or_else(|p| p.into_inner()).entry(n).or_default().clone()
+    }
+
+    /// Drops the lock of order n once nobody else holds it.
+    pub fn forget_build_lock(&self, n: usize) {
+        let mut b = self.builds.lock().unwrap_or_else(|p| p.into_inner());
+        if b.get(&n).is_some_and(|l| Arc::strong_count(l) <= 2) {
+            b.remove(&n);
+        }
+    }
+}
+
+/// Opens (creating and seeding) the store and makes the state. Blocking.
+pub fn open_state(config: Config) -> Result<AppState, StoreError> {
+    let store = Store::open(&config.db, Mode::ReadWrite, config.readers)?;
+    match seed::ensure_seeded(&store)? {
+        seed::Seeded::AlreadyCurrent => tracing::info!("seed catalogue already current"),
+        seed::Seeded::Written { orders, sequences } => tracing::info!(orders, sequences, "wrote the seed catalogue"),
+    }
+    Ok(AppState {
+        catalogue: Catalogue::new(store, config.cache_bytes),
+        heavy: Arc::new(Semaphore::new(config.heavy_jobs.max(1))),
+        config,
+        builds: Mutex::new(HashMap::new()),
+    })
+}
+
+/// The router: the API, the app's pages and assets, with timeouts and security headers.
+pub fn router(state: Arc<AppState>) -> Router {
+    Router::new()
+        .route("/api", get(api::index))
+        .route("/api/health", get(api::health))
+        .route("/api/orders/{n}", get(api::orders::show))
+        .route("/api/orders/{n}/matrix", get(api::orders::catalogue_matrix))
+        .route("/api/orders/{n}/matrices", get(api::orders::list))
+        .route("/api/coverage", get(api::coverage::show))
+        .route("/api/dimensions/{d}", get(api::advice::dimension))
+        .route("/api/smallest-known", get(api::advice::smallest_known))
+        .route("/api/matrices", axum::routing::post(api::matrices::upload))
+        .route("/api/matrices/{id}", get(api::matrices::show))
+        .route("/api/matrices/{id}/download", get(api::matrices::download))
+        .route("/api/matrices/{id}/rows/{i}", get(api::matrices::row))
+        .route("/", get(api::pages::index))
+        .route("/m/{id}", get(api::pages::matrix_page))
+        .route("/pkg/boot.js", get(api::pages::boot_js))
+        .route("/pkg/web.js", get(api::pages::web_js))
+        .route("/pkg/web_bg.wasm", get(api::pages::web_wasm))
+        .fallback(api::pages::fallback)
+        .layer(middleware::from_fn_with_state(state.clone(), timeout))
+        .layer(middleware::from_fn(security_headers))
+        .layer(TraceLayer::new_for_http())
+        .with_state(state)
+}
+
+/// The content security policy: our own scripts and WebAssembly, inline styles (Leptos sets
+/// some), pictures from ourselves and from `data:`/`blob:` URLs, no framing.
+pub const CSP: &str = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'; frame-ancestors 'none'";
+
+async fn security_headers(req: Request, next: Next) -> Response {
+    let mut resp = next.run(req).await;
+    let h = resp.headers_mut();
+    h.insert(header::CONTENT_SECURITY_POLICY, HeaderValue::from_static(CSP));
+    h.insert(header::X_CONTENT_TYPE_OPTIONS, HeaderValue::from_static("nosniff"));
+    h.insert(header::REFERRER_POLICY, HeaderValue::from_static("no-referrer"));
+    h.insert(header::X_FRAME_OPTIONS, HeaderValue::from_static("DENY"));
+    resp
+}
+
+async fn timeout(State(state): State<Arc<AppState>>, req: Request, next: Next) -> Response {
+    let limit = state.config.request_timeout;
+    match tokio::time::timeout(limit, next.run(req)).await {
+        Ok(r) => r,
+        Err(_) => {
+            tracing::warn!(seconds = limit.as_secs_f64(), "request timed out");
+            api::helpers::ApiError::new(StatusCode::SERVICE_UNAVAILABLE, format!("the request took longer than this server's limit of {} s", limit.as_secs_f64()))
+                .into_response()
+        }
+    }
+}
+
+/// Runs the server until SIGINT or SIGTERM, then finishes the requests in flight.
+pub async fn run(config: Config) -> Result<(), String> {
+    let addr = config.addr;
+    let db = config.db.clone();
+    let state = tokio::task::spawn_blocking(move || open_state(config))
+        .await
+        .map_err(|e| format!("startup failed: {e}"))?
+        .map_err(|e| format!("cannot open the catalogue at {}: {e}", db.display()))?;
+    let state = Arc::new(state);
+    let listener = tokio::net::TcpListener::bind(addr).await.map_err(|e| format!("cannot listen on {addr}: {e}"))?;
+    let local = listener.local_addr().map_err(|e| e.to_string())?;
+    // The one line on stdout: scripts (and the tests) read the address from it.
+    println!("hadamard serve: listening on http://{local}/ (database {})", state.catalogue.store.path().display());
+    use std::io::Write;
+    let _ = std::io::stdout().flush();
+    tracing::info!(%local, "listening");
+    axum::serve(listener, router(state)).with_graceful_shutdown(shutdown_signal()).await.map_err(|e| format!("server error: {e}"))?;
+    tracing::info!("stopped");
+    Ok(())
+}
+
+async fn shutdown_signal() {
+    let ctrl_c = async {
+        let _ = tokio::signal::ctrl_c().await;
+    };
+    #[cfg(unix)]
+    let term = async {
+        match tokio::signal::unix::signal(tokio::signal::unix::SignalKind::terminate()) {
+            Ok(mut s) => {
+                s.recv().await;
+            }
+            Err(_) => std::future::pending::<()>().await,
+        }
+    };
+    #[cfg(not(unix))]
+    let term = std::future::pending::<()>();
+    tokio::select! {
+        _ = ctrl_c => {},
+        _ = term => {},
+    }
+    tracing::info!("shutting down: finishing requests in flight");
+}

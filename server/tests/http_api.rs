@@ -1,0 +1,312 @@
+//! Every endpoint of `hadamard serve` over real HTTP on loopback, against a real SQLite file:
+//! status codes, bodies, headers, error bodies, and a restart that keeps everything.
+
+mod common;
+
+use common::{hadamard, sha256_of, sylvester_variant, Server};
+use serde_json::Value;
+
+fn tempdir() -> tempfile::TempDir {
+    tempfile::tempdir().expect("a temporary directory")
+}
+
+#[test]
+fn orders_coverage_and_advice() {
+    let dir = tempdir();
+    let s = Server::start(&dir.path().join("registry.sqlite3"), &[]);
+
+    let r = s.get("/api/orders/12");
+    assert_eq!(r.status, 200);
+    assert_eq!(r.header("content-type"), Some("application/json"));
+    let o = r.json();
+    assert_eq!(o["order"], 12);
+    assert_eq!(o["status"], "constructible");
+    assert!(o["routes"].as_array().is_some_and(|a| !a.is_empty()));
+    // The same object as the planner gives above the seeded range.
+    let big = s.get("/api/orders/4096").json();
+    assert_eq!(big["order"], 4096);
+    assert_eq!(big["status"], "constructible");
+    assert_eq!(s.get("/api/orders/6").json()["status"], "impossible");
+
+    for bad in ["/api/orders/0", "/api/orders/abc", "/api/orders/-4", "/api/orders/99999999999999999999"] {
+        let r = s.get(bad);
+        assert_eq!(r.status, 400, "{bad}");
+        assert!(r.json()["error"].is_string(), "{bad}");
+    }
+
+    let c = s.get("/api/coverage?max=20").json();
+    let orders: Vec<u64> = c.as_array().expect("a list").iter().map(|e| e["order"].as_u64().expect("order")).collect();
+    assert_eq!(orders, vec![1, 2, 4, 8, 12, 16, 20]);
+    assert!(c.as_array().expect("a list").iter().all(|e| e["status"].is_string()));
+    let c2 = s.get("/api/coverage?max=2010").json();
+    assert_eq!(c2.as_array().map(Vec::len), Some(2 + 2008 / 4));
+    assert_eq!(s.get("/api/coverage").status, 400);
+    assert_eq!(s.get("/api/coverage?max=x").status, 400);
+    assert_eq!(s.get("/api/coverage?max=100000000").status, 400);
+
+    let d = s.get("/api/dimensions/768");
+    assert_eq!(d.status, 200);
+    assert_eq!(d.json()["dimension"], 768);
+    assert_eq!(s.get("/api/dimensions/zero").status, 400);
+
+    let k = s.get("/api/smallest-known?at-least=13").json();
+    assert_eq!(k["order"], 16);
+    let k = s.get("/api/smallest-known?at-least=13&constructible=true").json();
+    assert_eq!(k["order"], 16);
+    assert_eq!(s.get("/api/smallest-known").status, 400);
+    assert_eq!(s.get("/api/smallest-known?at-least=5&constructible=maybe").status, 400);
+
+    let h = s.get("/api/health").json();
+    assert_eq!(h["status"], "ok");
+    assert_eq!(h["orders_seeded_up_to"], 2000);
+    let api = s.get("/api").json();
+    assert!(api["endpoints"].as_array().is_some_and(|e| e.len() > 5));
+
+    let r = s.get("/api/no-such-thing");
+    assert_eq!(r.status, 404);
+    assert!(r.json()["error"].as_str().is_some_and(|e| e.contains("no such endpoint")));
+    assert_eq!(s.stop(), Some(0), "SIGTERM stops the server cleanly");
+}
+
+#[test]
+fn upload_lookup_download_and_restart() {
+    let dir = tempdir();
+    let db = dir.path().join("data").join("registry.sqlite3");
+    let s = Server::start(&db, &[]);
+
+    // A new valid matrix: 201, the id is the SHA-256 of its canonical text, Location is /m/id.
+    let text = sylvester_variant(3, 0b1010_0110);
+    let id = sha256_of(&text);
+    let r = s.post("/api/matrices", text.as_bytes());
+    assert_eq!(r.status, 201, "{}", r.text());
+    let b = r.json();
+    assert_eq!(b["id"], id.as_str());
+    assert_eq!(b["url"], format!("/m/{id}"));
+    assert_eq!(r.header("location"), Some(format!("/m/{id}").as_str()));
+    assert_eq!(b["order"], 8);
+    assert_eq!(b["stored_now"], true);
+    assert_eq!(b["provenance"]["kind"], "uploaded");
+    assert_eq!(b["provenance"]["received_format"], "pm");
+    assert_eq!(b["verification"]["check"], "exact-gram-popcount");
+    assert_eq!(b["equivalence"]["invariant"], "profile4");
+
+    // The same matrix again, in another format (CSV with CRLF and a BOM): 200, same id.
+    let csv: String = "\u{feff}".to_owned()
+        + &text.lines().map(|l| l.chars().map(|c| if c == '+' { "1" } else { "-1" }).collect::<Vec<_>>().join(",")).collect::<Vec<_>>().join("\r\n")
+        + "\r\n";
+    let r = s.post("/api/matrices", csv.as_bytes());
+    assert_eq!(r.status, 200, "{}", r.text());
+    assert_eq!(r.json()["id"], id.as_str());
+    assert_eq!(r.json()["stored_now"], false);
+
+    // An equivalent but different matrix: new id, and flagged as possibly equivalent.
+    let other = sylvester_variant(3, 0b1);
+    let r = s.post("/api/matrices", other.as_bytes());
+    assert_eq!(r.status, 201);
+    let e = &r.json()["equivalence"];
+    assert_eq!(e["possibly_equivalent_to"][0], id.as_str());
+    assert_eq!(e["proven_new"], false);
+
+    // Metadata.
+    let m = s.get(&format!("/api/matrices/{id}"));
+    assert_eq!(m.status, 200);
+    let m = m.json();
+    assert_eq!(m["order"], 8);
+    assert_eq!(m["properties"]["skew"], false);
+    assert!(m["properties"]["normalized"].is_boolean());
+    assert!(m["provenance"]["uploaded_at"].as_str().is_some_and(|t| t.ends_with('Z')));
+    assert!(m["verification"]["verified_at"].is_string());
+    assert_eq!(m["invariant"]["kind"], "profile4");
+
+    // Downloads: pm is the canonical text; the other formats carry their own tags.
+    let pm = s.get(&format!("/api/matrices/{id}/download?format=pm"));
+    assert_eq!(pm.status, 200);
+    assert_eq!(pm.text(), text);
+    let etag = pm.header("etag").expect("an ETag").to_owned();
+    assert_eq!(etag, format!("\"{id}.pm\""));
+    assert_eq!(pm.header("cache-control"), Some("public, max-age=31536000, immutable"));
+    let r = s.get_with(&format!("/api/matrices/{id}/download?format=pm"), &[("If-None-Match", &etag)]);
+    assert_eq!(r.status, 304);
+    assert!(r.body.is_empty());
+    assert_eq!(r.header("etag"), Some(etag.as_str()));
+    let r = s.get_with(&format!("/api/matrices/{id}/download?format=csv"), &[("If-None-Match", &etag)]);
+    assert_eq!(r.status, 200, "a pm tag does not match the csv representation");
+    assert!(r.text().starts_with("1,"));
+    for (f, ctype) in [("json", "application/json"), ("npy", "application/octet-stream"), ("png", "image/png"), ("npy-f64", "application/octet-stream")] {
+        let r = s.get(&format!("/api/matrices/{id}/download?format={f}"));
+        assert_eq!(r.status, 200, "{f}");
+        assert_eq!(r.header("content-type"), Some(ctype), "{f}");
+        assert!(r.header("content-disposition").is_some_and(|d| d.contains("hadamard-8-")), "{f}");
+    }
+    let bits = s.get(&format!("/api/matrices/{id}/download?format=bits&minus=0"));
+    assert_eq!(bits.header("x-bits-minus"), Some("0"));
+    assert_eq!(bits.header("etag"), Some(format!("\"{id}.bits-minus0\"").as_str()));
+    // A downloaded .npy uploads back to the same id.
+    let npy = s.get(&format!("/api/matrices/{id}/download?format=npy"));
+    let r = s.post("/api/matrices", &npy.body);
+    assert_eq!(r.status, 200);
+    assert_eq!(r.json()["id"], id.as_str());
+    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=xls")).status, 400);
+    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=bits&minus=2")).status, 400);
+
+    // One row.
+    let row = s.get(&format!("/api/matrices/{id}/rows/2"));
+    assert_eq!(row.status, 200);
+    assert_eq!(row.json()["pm"], text.lines().nth(2).expect("row 2"));
+    assert_eq!(row.json()["values"].as_array().map(Vec::len), Some(8));
+    assert_eq!(s.get(&format!("/api/matrices/{id}/rows/8")).status, 404);
+    assert_eq!(s.get(&format!("/api/matrices/{id}/rows/x")).status, 400);
+
+    // Unknown and malformed ids.
+    let unknown = "0".repeat(64);
+    let r = s.get(&format!("/api/matrices/{unknown}"));
+    assert_eq!(r.status, 404);
+    assert!(r.json()["error"].is_string());
+    assert_eq!(s.get(&format!("/api/matrices/{unknown}/download?format=pm")).status, 404);
+    assert_eq!(s.get_with(&format!("/api/matrices/{unknown}/download?format=pm"), &[("If-None-Match", &format!("\"{unknown}.pm\""))]).status, 404);
+    assert_eq!(s.get("/api/matrices/not-an-id").status, 400);
+    assert_eq!(s.get(&format!("/api/matrices/{}", id.to_uppercase())).status, 400);
+
+    // The pages.
+    let p = s.get(&format!("/m/{id}"));
+    assert_eq!(p.status, 200);
+    assert!(p.text().starts_with("<!doctype html>"));
+    assert!(p.header("content-security-policy").is_some_and(|c| c.contains("'wasm-unsafe-eval'") && c.contains("frame-ancestors 'none'")));
+    assert_eq!(p.header("x-content-type-options"), Some("nosniff"));
+    assert_eq!(s.get(&format!("/m/{unknown}")).status, 404);
+    assert_eq!(s.get("/").status, 200);
+    assert_eq!(s.get("/order/92").status, 200, "the app's own routes get the shell");
+    assert_eq!(s.get("/pkg/web_bg.wasm").header("content-type"), Some("application/wasm"));
+    assert!(s.get("/pkg/web.js").header("content-type").is_some_and(|c| c.starts_with("application/javascript")));
+    assert!(s.get("/pkg/boot.js").text().contains("/pkg/web_bg.wasm"));
+
+    // Restart: everything is still there, byte for byte.
+    assert_eq!(s.stop(), Some(0));
+    let s = Server::start(&db, &[]);
+    let m2 = s.get(&format!("/api/matrices/{id}")).json();
+    assert_eq!(m2, m);
+    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=pm")).text(), text);
+    assert_eq!(s.post("/api/matrices", text.as_bytes()).status, 200);
+    assert_eq!(s.get("/api/orders/8/matrices").json()["total"], 2);
+    drop(s);
+
+    // `hadamard audit` re-verifies every stored matrix.
+    let out = hadamard().args(["audit", "--json", "--db"]).arg(&db).output().expect("run audit");
+    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stdout));
+    let a: Value = serde_json::from_slice(&out.stdout).expect("audit --json");
+    assert_eq!(a["checked"], 2);
+    assert_eq!(a["failed"], 0);
+    assert_eq!(a["integrity_check"][0], "ok");
+}
+
+#[test]
+fn refusals_400_413_422() {
+    let dir = tempdir();
+    let s = Server::start(&dir.path().join("r.sqlite3"), &["--max-body", "100000", "--max-order", "64"]);
+
+    // Malformed: 400 with the place.
+    let r = s.post("/api/matrices", b"++\n+x\n");
+    assert_eq!(r.status, 400);
+    let b = r.json();
+    assert_eq!(b["location"]["line"], 2);
+    assert_eq!(b["location"]["column"], 2);
+    assert!(b["error"].as_str().is_some_and(|e| e.contains("line 2, column 2")));
+    let r = s.post("/api/matrices", b"");
+    assert_eq!(r.status, 400);
+    assert_eq!(s.post("/api/matrices", &[0u8, 159, 146, 150, 255, 0, 1]).status, 400, "binary garbage");
+    assert_eq!(s.post("/api/matrices?format=klingon", b"++\n+-\n").status, 400);
+    // A .npy header that declares far more data than it has.
+    let mut npy = b"\x93NUMPY\x01\x00".to_vec();
+    let header = "{'descr': '|i1', 'fortran_order': False, 'shape': (40000, 40000), }";
+    let mut h = header.to_owned();
+    while (10 + h.len() + 1) % 64 != 0 {
+        h.push(' ');
+    }
+    h.push('\n');
+    npy.extend_from_slice(&(h.len() as u16).to_le_bytes());
+    npy.extend_from_slice(h.as_bytes());
+    npy.extend_from_slice(&[1u8; 16]);
+    let r = s.post("/api/matrices", &npy);
+    assert_eq!(r.status, 400, "{}", r.text());
+
+    // Well-formed, not Hadamard: 422 with the failing pairs.
+    let r = s.post("/api/matrices", b"++++\n++--\n+-+-\n+--+\n++++\n".as_slice());
+    assert_eq!(r.status, 422);
+    let r = s.post("/api/matrices", b"++++\n++--\n+-+-\n++++\n");
+    assert_eq!(r.status, 422);
+    let b = r.json();
+    assert_eq!(b["hadamard"], false);
+    assert_eq!(b["failing_pairs_total"], 1);
+    assert_eq!(b["failing_pairs"][0]["i"], 0);
+    assert_eq!(b["failing_pairs"][0]["j"], 3);
+    assert_eq!(b["failing_pairs"][0]["dot"], 4);
+    assert!(b["error"].is_string());
+    assert_eq!(s.post("/api/matrices", b"+++\n+-+\n++-\n").status, 422, "order 3 cannot be Hadamard");
+    assert_eq!(s.post("/api/matrices", b"++\n+?\n").status, 422, "erased entries are not stored");
+
+    // Too large: a declared length over the limit is refused before the body is read.
+    let r = common::request(s.addr, "POST", "/api/matrices", &[("Content-Length", "1000000000")], b"");
+    assert_eq!(r.status, 413);
+    assert_eq!(r.json()["limit"], 100000);
+    // And a chunked body that grows past it.
+    let mut chunked = Vec::new();
+    for _ in 0..30 {
+        chunked.extend_from_slice(format!("{:x}\r\n", 8192).as_bytes());
+        chunked.extend_from_slice(&[b'+'; 8192]);
+        chunked.extend_from_slice(b"\r\n");
+    }
+    chunked.extend_from_slice(b"0\r\n\r\n");
+    let r = common::request(s.addr, "POST", "/api/matrices", &[("Transfer-Encoding", "chunked")], &chunked);
+    assert_eq!(r.status, 413);
+
+    // Orders above --max-order are neither uploaded nor built.
+    let big = sylvester_variant(7, 0);
+    let r = s.post("/api/matrices", big.as_bytes());
+    assert_eq!(r.status, 400, "{}", r.text());
+    assert_eq!(s.get("/api/orders/128/matrix").status, 422);
+
+    // Nothing refused was stored.
+    assert_eq!(s.get("/api/health").json()["matrices"], 0);
+    assert_eq!(common::request(s.addr, "DELETE", "/api/matrices", &[], b"").status, 405);
+}
+
+#[test]
+fn catalogue_matrices_are_built_on_demand_and_stored() {
+    let dir = tempdir();
+    let s = Server::start(&dir.path().join("r.sqlite3"), &[]);
+
+    let r = s.get("/api/orders/12/matrix");
+    assert_eq!(r.status, 200, "{}", r.text());
+    let e = r.json();
+    assert_eq!(e["built_now"], true);
+    let id = e["id"].as_str().expect("an id").to_owned();
+    assert_eq!(e["url"], format!("/m/{id}"));
+    assert!(e["recipe"]["method"].is_string());
+    // The id is the SHA-256 of the pm download.
+    let pm = s.get(&format!("/api/matrices/{id}/download?format=pm")).text();
+    assert_eq!(sha256_of(&pm), id);
+    // Asked again: the stored one, not built again.
+    let again = s.get("/api/orders/12/matrix").json();
+    assert_eq!(again["id"], id.as_str());
+    assert_eq!(again["built_now"], false);
+    let meta = s.get(&format!("/api/matrices/{id}")).json();
+    assert_eq!(meta["provenance"]["kind"], "constructed");
+    assert!(meta["provenance"]["recipe"]["tree"].is_object());
+    assert_eq!(meta["catalogue_entry"]["order"], 12);
+
+    // The listing of a constructible order with nothing stored builds one first.
+    let l = s.get("/api/orders/32/matrices").json();
+    assert_eq!(l["total"], 1);
+    assert_eq!(l["built_now"], true);
+    assert_eq!(l["matrices"][0]["origin"], "constructed");
+    assert_eq!(l["catalogue_entry"], l["matrices"][0]["id"]);
+    assert_eq!(s.get("/api/orders/32/matrices?limit=0").status, 400);
+    assert_eq!(s.get("/api/orders/32/matrices?limit=10&offset=1").json()["matrices"].as_array().map(Vec::len), Some(0));
+
+    // Orders with no implemented route: 404 that says the order's status.
+    let r = s.get("/api/orders/6/matrix");
+    assert_eq!(r.status, 404);
+    assert_eq!(r.json()["status"], "impossible");
+    let l = s.get("/api/orders/6/matrices").json();
+    assert_eq!(l["total"], 0);
+}
