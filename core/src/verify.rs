@@ -191,35 +191,31 @@ pub fn properties(m: &Matrix) -> Properties {
     let n = m.rows();
     let square = m.is_square();
     let normalized = n > 0 && m.row_negatives(0) == 0 && (0..n).all(|i| !m.is_negative(i, 0));
+    let t = m.transpose();
     let (symmetric, skew) = if square {
-        let t = m.transpose();
         let symmetric = t == *m;
         // Skew: the diagonal is +1, and entry (i,j) is the negation of (j,i) off the diagonal,
         // so H ⊕ Hᵀ is all ones except on the diagonal.
+        let tail = crate::matrix::tail_mask(n);
         let skew = (0..n).all(|i| {
             let (a, b) = (m.row_words(i), t.row_words(i));
-            let tail = crate::matrix::tail_mask(n);
-            a.iter().zip(b).enumerate().all(|(k, (x, y))| {
-                let mut want = if k + 1 == a.len() { tail } else { u64::MAX };
-                if k == i / 64 {
-                    want &= !(1u64 << (i % 64));
-                }
-                (x ^ y) == want
-            }) && !m.is_negative(i, i)
+            !m.is_negative(i, i)
+                && a.iter().zip(b).enumerate().all(|(k, (x, y))| {
+                    let mut want = if k + 1 == a.len() { tail } else { u64::MAX };
+                    if k == i / 64 {
+                        want &= !(1u64 << (i % 64));
+                    }
+                    (x ^ y) == want
+                })
         });
         (symmetric, skew)
     } else {
         (false, false)
     };
-    let row_sums: Vec<i64> = (0..n).map(|i| m.cols() as i64 - 2 * m.row_negatives(i) as i64).collect();
+    let sum = |x: &Matrix, i: usize| x.cols() as i64 - 2 * x.row_negatives(i) as i64;
+    let row_sums: Vec<i64> = (0..n).map(|i| sum(m, i)).collect();
     let excess = row_sums.iter().sum();
-    let regular = if n == 0 || row_sums.windows(2).any(|w| w[0] != w[1]) {
-        false
-    } else {
-        let t = m.transpose();
-        let c0 = t.cols() as i64 - 2 * t.row_negatives(0) as i64;
-        c0 == row_sums[0] && (0..t.rows()).all(|j| t.cols() as i64 - 2 * t.row_negatives(j) as i64 == c0)
-    };
+    let regular = n > 0 && row_sums.iter().all(|&r| r == row_sums[0]) && (0..t.rows()).all(|j| sum(&t, j) == row_sums[0]);
     Properties { normalized, symmetric, skew, regular, excess }
 }
 
@@ -494,31 +490,58 @@ mod x86 {
     pub unsafe fn tile_avx512(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
         let w = m.words_per_row();
         let bits = m.words().as_ptr();
-        let row = |i: usize| bits.add(i * w);
+        let row = |i: usize| bits.add(i * w) as *const i64;
         let (a0, a1, a2, a3) = (row(i0), row(i0 + 1), row(i0 + 2), row(i0 + 3));
         let (b0, b1, b2, b3) = (row(j0), row(j0 + 1), row(j0 + 2), row(j0 + 3));
         let z = _mm512_setzero_si512();
         let mut s = [z; 16];
-        let mut k = 0;
-        while k < w {
-            let left = w - k;
-            let mask: __mmask8 = if left >= 8 { 0xff } else { (1u8 << left) - 1 };
-            let ld = |p: *const u64| _mm512_maskz_loadu_epi64(mask, p.add(k) as *const i64);
-            let x = [ld(a0), ld(a1), ld(a2), ld(a3)];
-            let y = [ld(b0), ld(b1), ld(b2), ld(b3)];
-            for r in 0..T {
-                for c in 0..T {
-                    let d = _mm512_xor_si512(x[r], y[c]);
-                    s[r * T + c] = _mm512_add_epi64(s[r * T + c], _mm512_popcnt_epi64(d));
+        macro_rules! step {
+            ($ld:expr) => {{
+                let x = [$ld(a0), $ld(a1), $ld(a2), $ld(a3)];
+                let y = [$ld(b0), $ld(b1), $ld(b2), $ld(b3)];
+                for r in 0..T {
+                    for c in 0..T {
+                        let d = _mm512_xor_si512(x[r], y[c]);
+                        s[r * T + c] = _mm512_add_epi64(s[r * T + c], _mm512_popcnt_epi64(d));
+                    }
                 }
-            }
+            }};
+        }
+        let full = w / 8 * 8;
+        let mut k = 0;
+        while k < full {
+            step!(|p: *const i64| _mm512_loadu_si512(p.add(k) as *const _));
             k += 8;
         }
+        if k < w {
+            let mask: __mmask8 = (1u8 << (w - k)) - 1;
+            step!(|p: *const i64| _mm512_maskz_loadu_epi64(mask, p.add(k)));
+        }
+        // Sixteen horizontal sums by a transposing tree: 8 vectors become one vector of their
+        // 8 sums in 21 instructions, instead of a full reduction each.
+        let lo = hsum8([s[0], s[1], s[2], s[3], s[4], s[5], s[6], s[7]]);
+        let hi = hsum8([s[8], s[9], s[10], s[11], s[12], s[13], s[14], s[15]]);
+        let mut out = [0u64; 16];
+        _mm512_storeu_si512(out.as_mut_ptr() as *mut _, lo);
+        _mm512_storeu_si512(out.as_mut_ptr().add(8) as *mut _, hi);
         for r in 0..T {
             for c in 0..T {
-                acc[r][c] = _mm512_reduce_add_epi64(s[r * T + c]) as u32;
+                acc[r][c] = out[r * T + c] as u32;
             }
         }
+    }
+
+    /// Lane k of the result is the sum of the eight lanes of v[k].
+    #[inline]
+    #[target_feature(enable = "avx512f")]
+    unsafe fn hsum8(v: [__m512i; 8]) -> __m512i {
+        let pair = |a: __m512i, b: __m512i| _mm512_add_epi64(_mm512_unpacklo_epi64(a, b), _mm512_unpackhi_epi64(a, b));
+        let (p01, p23, p45, p67) = (pair(v[0], v[1]), pair(v[2], v[3]), pair(v[4], v[5]), pair(v[6], v[7]));
+        let quad = |a: __m512i, b: __m512i| {
+            _mm512_add_epi64(_mm512_shuffle_i64x2::<0b10_00_10_00>(a, b), _mm512_shuffle_i64x2::<0b11_01_11_01>(a, b))
+        };
+        let (q0, q1) = (quad(p01, p23), quad(p45, p67));
+        quad(q0, q1)
     }
 }
 

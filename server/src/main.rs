@@ -29,6 +29,15 @@ enum Command {
     Verify(cli::verify::VerifyArgs),
     /// Convert a matrix between formats, optionally normalising it.
     Convert(cli::convert::ConvertArgs),
+    /// How an order can be built: its status in the literature and every route, with references.
+    Routes(cli::routes::RoutesArgs),
+    /// Build, verify and write a matrix of order N. Exit 3 when no implemented route reaches N.
+    Build(cli::build::BuildArgs),
+    /// The status of every order up to M.
+    Coverage(cli::coverage::CoverageArgs),
+    /// For a dimension d: every d = 2^a·m₀ through a known order m₀; or the smallest known
+    /// order ≥ k (for balanced repeated replication with k strata).
+    Advise(cli::advise::AdviseArgs),
     /// Run the web catalogue and its JSON API (default http://127.0.0.1:8080/).
     Serve(cli::serve::ServeArgs),
     /// Re-verify every matrix stored in a catalogue database; exit 1 if any fails.
@@ -40,6 +49,10 @@ fn main() -> ExitCode {
     match cli.command {
         Command::Verify(a) => cli::verify::run(a),
         Command::Convert(a) => cli::convert::run(a),
+        Command::Routes(a) => cli::routes::run(a),
+        Command::Build(a) => cli::build::run(a),
+        Command::Coverage(a) => cli::coverage::run(a),
+        Command::Advise(a) => cli::advise::run(a),
         Command::Serve(a) => cli::serve::run(a),
         Command::Audit(a) => cli::audit::run(a),
     }

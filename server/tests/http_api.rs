@@ -281,7 +281,8 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
     assert_eq!(e["built_now"], true);
     let id = e["id"].as_str().expect("an id").to_owned();
     assert_eq!(e["url"], format!("/m/{id}"));
-    assert!(e["recipe"]["method"].is_string());
+    assert!(e["recipe"]["tree"]["method"].is_string());
+    assert_eq!(e["recipe"]["id"], id.as_str(), "the recipe pins the id it replays to");
     // The id is the SHA-256 of the pm download.
     let pm = s.get(&format!("/api/matrices/{id}/download?format=pm")).text();
     assert_eq!(sha256_of(&pm), id);

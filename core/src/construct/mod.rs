@@ -10,10 +10,20 @@
 //! The array constructions share one builder ([`arrays`]): a 4×4 array of group-developed
 //! blocks, some multiplied by a reversal R on either side, written straight into bits.
 
+pub mod conference;
+pub mod cooper_wallis;
+pub mod goethals_seidel;
 pub mod kronecker;
 pub mod paley;
 pub mod sequences;
+pub mod skew;
 pub mod sylvester;
+pub mod t_sequences;
+pub mod turyn_williamson;
+pub mod twin_prime;
+pub mod williamson;
+
+pub(crate) mod arrays;
 
 use crate::matrix::Matrix;
 use crate::verify::{certify, Report, Verified};
@@ -53,8 +63,18 @@ pub(crate) fn finish(m: Matrix) -> Result<Verified, ConstructError> {
     certify(m).map_err(ConstructError::NotVerified)
 }
 
+pub use conference::conference_product;
+pub use cooper_wallis::cooper_wallis;
+pub use goethals_seidel::goethals_seidel;
 pub use kronecker::kronecker;
 pub use paley::{
     hadamard_from_conference, jacobsthal, paley_conference, paley_one, paley_two, Conference,
 };
+pub use skew::skew_double;
 pub use sylvester::sylvester;
+pub use t_sequences::{
+    base_to_t, golay_doubling, golay_product, golay_to_t, t_sequences, turyn_to_base,
+};
+pub use turyn_williamson::turyn_williamson;
+pub use twin_prime::twin_prime_power;
+pub use williamson::{quaternion_array, williamson_array, Block};

@@ -1,0 +1,180 @@
+//! Which published constructions give a Hadamard matrix of order n, and the order's status.
+//!
+//! One idea: a *route* is a tree of constructions whose leaves are things we hold (Sylvester's
+//! 2×2, a finite field, a seed-catalogue entry) or things a paper proves exist (Williamson
+//! matrices of order 23, Turyn-type sequences TT(36)). A route is *buildable* when every leaf is
+//! one we hold and every node is implemented in [`crate::construct`]; building walks the tree
+//! and every matrix it returns has passed [`crate::verify`]. An order's [`Status`] follows from
+//! its routes and, up to 2000, from the literature file `seed-catalogue/orders/literature.txt`
+//! ([`literature`]), which is the only source allowed to call an order open.
+//!
+//! Planning works on divisors and factorisations, never by scanning all smaller orders, so
+//! [`order_info`] answers for n up to 10¹² in milliseconds; one [`Planner`] memoises best routes
+//! per order, which is what makes [`coverage`] fast.
+//!
+//! **Addition to the interface contract**: besides `constructible`, `known`, `open` and
+//! `impossible`, a status can be `uncovered`: n > 2000 is 1, 2 or a multiple of 4, but no route
+//! this program knows reaches it. No source we read lists open orders above 2000, so we do not
+//! call such an order open (documented in `docs/constructions.md`).
+
+mod advice;
+mod build;
+pub mod literature;
+mod plan;
+#[cfg(test)]
+mod tests;
+
+pub use advice::{
+    dimension_advice, smallest_constructible_at_least, smallest_known_at_least, Advice, Factoring,
+};
+pub use build::{
+    build, build_order, build_recipe, recipe_for, BuildError, Recipe, MAX_BUILD_ORDER,
+    RECIPE_FORMAT,
+};
+pub use plan::{Planner, SeedIndex};
+
+use serde::{Deserialize, Serialize};
+use serde_json::Value;
+use std::collections::BTreeMap;
+
+/// What is known about an order.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Status {
+    /// This program can build one now.
+    Constructible,
+    /// The literature has one; this program cannot build it yet.
+    Known,
+    /// No Hadamard matrix of this order is known to anyone (only orders the literature lists).
+    Open,
+    /// n is not 1, 2 or a multiple of 4.
+    Impossible,
+    /// n > 2000, a possible order, but no route this program knows reaches it.
+    Uncovered,
+}
+
+/// A construction, or a kind of leaf, in a route tree.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Method {
+    /// H₂^{⊗k}: order 2^k (Sylvester 1867).
+    Sylvester,
+    /// Paley's first construction: q+1, q ≡ 3 mod 4 (Paley 1933).
+    PaleyOne,
+    /// Paley's second construction: 2(q+1), q ≡ 1 mod 4 (Paley 1933).
+    PaleyTwo,
+    /// H_a ⊗ H_b.
+    Kronecker,
+    /// C⊗H + I⊗(K·H) with C Paley's symmetric conference matrix of order q+1, q ≡ 1 mod 4.
+    ConferenceProduct,
+    /// The twin prime power difference set: (q+1)² (Stanton and Sprott 1958).
+    TwinPrimePower,
+    /// Williamson's array on Williamson matrices of order m: 4m (Williamson 1944).
+    Williamson,
+    /// The Goethals–Seidel array on a quadruple of order v: 4v (Goethals and Seidel 1970).
+    GoethalsSeidel,
+    /// T-sequences of length t in the Goethals–Seidel array: 4t (Turyn 1974).
+    TSequences,
+    /// T-sequences of length t with Williamson matrices of order w: 4tw (Cooper and Wallis 1972).
+    CooperWallis,
+    /// A skew matrix of order h doubled to a skew matrix of order 2h.
+    SkewDoubling,
+    /// Miyamoto's theorem: q ≡ 1 mod 4 and an order q−1 give 4q (1991). Listed, not built.
+    Miyamoto,
+    /// Yamada's theorems (1989). Listed, not built.
+    Yamada,
+    /// The whole order is known from the literature file; no construction of ours reaches it.
+    Literature,
+    /// A leaf: sequence data from the embedded seed catalogue.
+    Seed,
+    /// A leaf: sequence data a paper proves exist, not in our seed catalogue.
+    Published,
+    /// A Golay pair of length g₁g₂ from pairs of lengths g₁ and g₂ (Turyn 1974).
+    GolayProduct,
+    /// A Golay pair of length 2g from one of length g (Golay 1961).
+    GolayDoubling,
+    /// T-sequences of length g, g+1 or 2g+1 from a Golay pair of length g.
+    GolayToT,
+    /// T-sequences of length 2n+p from base sequences BS(n+p, n).
+    BaseToT,
+    /// Base sequences BS(2n−1, n) from Turyn-type sequences TT(n).
+    TurynToBase,
+    /// Turyn's Williamson matrices of order (q+1)/2, q ≡ 1 mod 4 (Turyn 1972).
+    TurynWilliamson,
+}
+
+/// One node of a route tree.
+///
+/// For a node that yields a matrix, `order` is its order. For a node that yields sequence data
+/// (Seed, Published, the Golay, base and Turyn steps, TurynWilliamson) `order` is the index of
+/// the family: the T-length t, the Williamson order m, the Goethals–Seidel length v, the Golay
+/// length g, the Turyn parameter n, or the longer length n+p of base sequences; `params.kind`
+/// names the family.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Step {
+    pub method: Method,
+    pub order: u64,
+    /// The parameters: q, k, t, w, part, kind, and for seed leaves the source, the provenance
+    /// and the sequences themselves (so a recipe replays without the catalogue).
+    pub params: BTreeMap<String, Value>,
+    /// The published reference for this step.
+    pub reference: String,
+    pub children: Vec<Step>,
+    /// True when this node and everything below it can be built by this program now.
+    pub buildable: bool,
+}
+
+/// A whole route for an order, with what ranks it.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Route {
+    pub method: Method,
+    pub tree: Step,
+    pub buildable: bool,
+    /// A rough estimate of the 64-bit word operations needed to build (not verify) the matrix.
+    pub cost: f64,
+    /// The largest factor that is not Sylvester: what a fast transform would have to multiply
+    /// densely. A Kronecker factor 2^a counts as cheap; a conference product C⊗H + I⊗KH counts
+    /// its conference order c.
+    pub largest_dense_factor: u64,
+    /// The smaller orders, fields and sequences it uses, in words.
+    pub ingredients: Vec<String>,
+    /// True when the route yields a skew matrix (H + Hᵀ = 2I).
+    pub skew: bool,
+}
+
+/// Everything the program says about one order.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct OrderInfo {
+    pub order: u64,
+    pub status: Status,
+    /// Best first: buildable, then smallest dense factor, then cheapest.
+    pub routes: Vec<Route>,
+    /// A plain-words explanation of the status.
+    pub note: String,
+    /// What the literature file says about this order, with its reference.
+    pub literature: Option<String>,
+}
+
+/// The status and routes of order n. Fast for n up to 10¹² and beyond.
+pub fn order_info(n: u64) -> OrderInfo {
+    Planner::new().order_info(n)
+}
+
+/// The status of every n ≤ max that is 1, 2 or a multiple of 4, ascending.
+pub fn coverage(max: u64) -> Vec<(u64, Status)> {
+    let mut p = Planner::new();
+    let mut out = Vec::new();
+    for n in [1, 2]
+        .into_iter()
+        .chain((4..=max).step_by(4))
+        .filter(|&n| n <= max)
+    {
+        out.push((n, p.status(n)));
+    }
+    out
+}
+
+/// True when a Hadamard matrix of order n can exist at all.
+pub fn order_possible(n: u64) -> bool {
+    n == 1 || n == 2 || (n > 0 && n.is_multiple_of(4))
+}

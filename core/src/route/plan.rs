@@ -1,0 +1,942 @@
+//! The planner: every route this program knows for an order, memoised per order.
+
+use super::literature::{self, Verdict};
+use super::{order_possible, Method, OrderInfo, Route, Status, Step, MAX_BUILD_ORDER};
+use crate::arith::{divisors, prime_power};
+use crate::construct::sequences::{
+    to_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
+};
+use crate::seed::{self, Entry};
+use serde_json::{json, Value};
+use std::collections::{BTreeMap, BTreeSet, HashMap};
+
+/// References, one place each.
+pub(crate) mod refs {
+    pub const SYLVESTER: &str = "Sylvester, Phil. Mag. 34 (1867)";
+    pub const PALEY: &str = "Paley, J. Math. Phys. 12 (1933)";
+    pub const KRONECKER: &str =
+        "Sylvester, Phil. Mag. 34 (1867): the tensor product of Hadamard matrices";
+    pub const CONFERENCE: &str = "conference matrix product C⊗H + I⊗(K·H), K = I⊗[[0,1],[−1,0]], over Paley's symmetric conference matrix (Paley, J. Math. Phys. 12, 1933) [derived; see constructions.md §2 #5]";
+    pub const TWIN: &str = "Stanton and Sprott, Canad. J. Math. 10 (1958) [recalled]";
+    pub const WILLIAMSON: &str = "Williamson, Duke Math. J. 11 (1944)";
+    pub const GOETHALS_SEIDEL: &str = "Goethals and Seidel, J. Austral. Math. Soc. 11 (1970)";
+    pub const T_SEQUENCES: &str =
+        "Turyn, J. Combin. Theory A 16 (1974) [recalled]: T-sequences in the Goethals–Seidel array";
+    pub const COOPER_WALLIS: &str = "Cooper and Wallis, Bull. Austral. Math. Soc. 7 (1972) [recalled]: T-sequences with Williamson matrices";
+    pub const SKEW_DOUBLING: &str = "a skew matrix of order h doubles to a skew matrix of order 2h (standard [recalled]; the block form is derived and verified in construct::skew)";
+    pub const MIYAMOTO: &str = "Miyamoto, J. Combin. Theory A 57 (1991) [recalled]";
+    pub const YAMADA: &str = "Yamada, J. Austral. Math. Soc. A 46 (1989)";
+    pub const GOLAY: &str = "Golay, IRE Trans. Inform. Theory 7 (1961) [recalled]";
+    pub const GOLAY_PRODUCT: &str =
+        "Turyn, J. Combin. Theory A 16 (1974); Jedwab and Parker, J. Combin. Des. 17 (2009)";
+    pub const GOLAY_LENGTHS: &str = "Golay pairs of every length 2^a·10^b·26^c: Turyn, J. Combin. Theory A 16 (1974); Jedwab and Parker, J. Combin. Des. 17 (2009)";
+    pub const GOLAY_TO_T: &str = "T-sequences of lengths g, g+1 and 2g+1 from a Golay pair of length g (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
+    pub const BASE_TO_T: &str = "T-sequences of length 2n+p from base sequences BS(n+p, n) (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
+    pub const TURYN_TO_BASE: &str = "BS(2n−1, n) = (C;D, C;−D, A, B) from TT(n): Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
+    pub const TT_KNOWN: &str = "Turyn-type sequences TT(n) exist for every even n ≤ 38: Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
+    pub const TT36: &str = "TT(36): Kharaghani and Tayfeh-Rezaie, J. Combin. Des. 13 (2005)";
+    pub const TURYN_WILLIAMSON: &str = "Turyn, J. Combin. Theory A 12 (1972)";
+    pub const WILLIAMSON_KNOWN: &str = "Williamson matrices of this order are known: Holzmann, Kharaghani and Tayfeh-Rezaie, Des. Codes Cryptogr. 46 (2008), and the works it cites";
+    pub const WILLIAMSON_23: &str = "Baumert, Golomb and Hall, Bull. Amer. Math. Soc. 68 (1962)";
+}
+
+/// The odd orders m for which Williamson matrices are known (constructions.md §3). None exist
+/// for 35, 47, 53, 59 (Đoković 1993; Holzmann, Kharaghani and Tayfeh-Rezaie 2008).
+pub const WILLIAMSON_KNOWN: &[u64] = &[
+    1, 3, 5, 7, 9, 11, 13, 15, 17, 19, 21, 23, 25, 27, 29, 31, 33, 37, 39, 41, 43, 45, 49, 51, 55,
+    57, 61, 63,
+];
+
+/// How many routes of one method an [`OrderInfo`] lists (the best ones).
+const PER_METHOD: usize = 3;
+
+/// The seed catalogue indexed by the parameter each entry yields.
+#[derive(Debug, Default)]
+pub struct SeedIndex {
+    williamson: BTreeMap<u64, &'static Entry<Williamson>>,
+    gs: BTreeMap<u64, &'static Entry<GsQuadruple>>,
+    tseq: BTreeMap<u64, &'static Entry<TSequences>>,
+    /// Keyed by the T-length 2n+p they give.
+    base: BTreeMap<u64, &'static Entry<BaseSequences>>,
+    /// Keyed by n.
+    turyn: BTreeMap<u64, &'static Entry<TurynType>>,
+    golay: BTreeMap<u64, &'static Entry<GolayPair>>,
+}
+
+impl SeedIndex {
+    /// Indexes [`seed::embedded`], keeping the first entry for each parameter.
+    pub fn embedded() -> SeedIndex {
+        let cat = seed::embedded();
+        let mut ix = SeedIndex::default();
+        for e in &cat.williamson {
+            ix.williamson.entry(e.data.m() as u64).or_insert(e);
+        }
+        for e in &cat.goethals_seidel {
+            ix.gs.entry(e.data.v() as u64).or_insert(e);
+        }
+        for e in &cat.t_sequences {
+            ix.tseq.entry(e.data.len() as u64).or_insert(e);
+        }
+        for e in &cat.base {
+            ix.base
+                .entry((e.data.a.len() + e.data.c.len()) as u64)
+                .or_insert(e);
+        }
+        for e in &cat.turyn_type {
+            ix.turyn.entry(e.data.n() as u64).or_insert(e);
+        }
+        for e in &cat.golay {
+            ix.golay.entry(e.data.len() as u64).or_insert(e);
+        }
+        ix
+    }
+}
+
+fn seq_params(
+    kind: &str,
+    e: &Entry<impl Sized>,
+    seqs: &[(&str, &[i8])],
+) -> Vec<(&'static str, Value)> {
+    let mut p = vec![
+        ("kind", json!(kind)),
+        ("source", json!(e.source)),
+        ("provenance", json!(e.provenance)),
+    ];
+    for (name, s) in seqs {
+        p.push((leak_key(name), json!(to_text(s))));
+    }
+    p
+}
+
+/// Parameter names are a small fixed set; this maps them to `'static` without allocation.
+fn leak_key(name: &str) -> &'static str {
+    match name {
+        "a" => "a",
+        "b" => "b",
+        "c" => "c",
+        "d" => "d",
+        "t1" => "t1",
+        "t2" => "t2",
+        "t3" => "t3",
+        _ => "t4",
+    }
+}
+
+/// Makes a node; `buildable` follows from the method and the children.
+pub(crate) fn step(
+    method: Method,
+    order: u64,
+    params: Vec<(&str, Value)>,
+    reference: &str,
+    children: Vec<Step>,
+) -> Step {
+    let params: BTreeMap<String, Value> = params
+        .into_iter()
+        .map(|(k, v)| (k.to_string(), v))
+        .collect();
+    let buildable =
+        super::build::implemented(method, &params) && children.iter().all(|c| c.buildable);
+    Step {
+        method,
+        order,
+        params,
+        reference: reference.to_string(),
+        children,
+        buildable,
+    }
+}
+
+fn param_u64(s: &Step, key: &str) -> u64 {
+    s.params.get(key).and_then(Value::as_u64).unwrap_or(0)
+}
+
+/// True when the node yields a matrix (as opposed to sequence data).
+fn yields_matrix(m: Method) -> bool {
+    matches!(
+        m,
+        Method::Sylvester
+            | Method::PaleyOne
+            | Method::PaleyTwo
+            | Method::Kronecker
+            | Method::ConferenceProduct
+            | Method::TwinPrimePower
+            | Method::Williamson
+            | Method::GoethalsSeidel
+            | Method::TSequences
+            | Method::CooperWallis
+            | Method::SkewDoubling
+            | Method::Miyamoto
+            | Method::Yamada
+            | Method::Literature
+    )
+}
+
+fn dense_factor(s: &Step) -> u64 {
+    match s.method {
+        Method::Sylvester => 1,
+        Method::Kronecker => s.children.iter().map(dense_factor).max().unwrap_or(1),
+        Method::ConferenceProduct => {
+            (param_u64(s, "q") + 1).max(s.children.iter().map(dense_factor).max().unwrap_or(1))
+        }
+        Method::SkewDoubling => s.children.iter().map(dense_factor).max().unwrap_or(1),
+        _ => s.order,
+    }
+}
+
+fn cost(s: &Step) -> f64 {
+    let below: f64 = s
+        .children
+        .iter()
+        .filter(|c| yields_matrix(c.method))
+        .map(cost)
+        .sum();
+    let n = s.order as f64;
+    let own = match s.method {
+        Method::Sylvester | Method::Kronecker | Method::SkewDoubling => n * n / 64.0,
+        Method::ConferenceProduct => 2.0 * n * n / 64.0 + n * n / 8.0,
+        _ if yields_matrix(s.method) => n * n,
+        _ => 0.0,
+    };
+    own + below
+}
+
+fn ingredients(s: &Step, out: &mut BTreeSet<String>) {
+    let q = param_u64(s, "q");
+    match s.method {
+        Method::Sylvester => {
+            out.insert(format!("Sylvester's H({})", s.order));
+        }
+        Method::PaleyOne
+        | Method::PaleyTwo
+        | Method::ConferenceProduct
+        | Method::Miyamoto
+        | Method::Yamada
+        | Method::TurynWilliamson => {
+            out.insert(format!("the field GF({q})"));
+        }
+        Method::TwinPrimePower => {
+            out.insert(format!("the fields GF({q}) and GF({})", q + 2));
+        }
+        Method::Seed => {
+            let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
+            let src = s.params.get("source").and_then(Value::as_str).unwrap_or("");
+            out.insert(format!(
+                "{} of {} {} (seed catalogue {src})",
+                family(kind),
+                index_name(kind),
+                s.order
+            ));
+        }
+        Method::Published => {
+            let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
+            out.insert(format!(
+                "{} of {} {} (published: {})",
+                family(kind),
+                index_name(kind),
+                s.order,
+                s.reference
+            ));
+        }
+        Method::Literature => {
+            out.insert(format!(
+                "a Hadamard matrix of order {} (literature: {})",
+                s.order, s.reference
+            ));
+        }
+        _ => {}
+    }
+    for c in &s.children {
+        ingredients(c, out);
+    }
+}
+
+fn family(kind: &str) -> &'static str {
+    match kind {
+        "williamson" => "Williamson matrices",
+        "gs" => "a Goethals–Seidel quadruple",
+        "tseq" => "T-sequences",
+        "base" => "base sequences",
+        "turyn" => "Turyn-type sequences",
+        _ => "a Golay pair",
+    }
+}
+
+fn index_name(kind: &str) -> &'static str {
+    match kind {
+        "williamson" => "order",
+        "turyn" => "parameter n =",
+        _ => "length",
+    }
+}
+
+fn is_skew(s: &Step) -> bool {
+    matches!(s.method, Method::PaleyOne | Method::SkewDoubling)
+}
+
+/// Turns a matrix-yielding tree into a ranked route.
+pub(crate) fn route(tree: Step) -> Route {
+    let mut ing = BTreeSet::new();
+    ingredients(&tree, &mut ing);
+    Route {
+        method: tree.method,
+        buildable: tree.buildable,
+        cost: cost(&tree),
+        largest_dense_factor: dense_factor(&tree),
+        ingredients: ing.into_iter().collect(),
+        skew: is_skew(&tree),
+        tree,
+    }
+}
+
+/// The ranking: buildable first, then the smallest dense factor, then specific constructions
+/// before the generic literature entry, then the cheapest.
+fn rank(a: &Route, b: &Route) -> std::cmp::Ordering {
+    let key = |r: &Route| {
+        (
+            !r.buildable,
+            r.largest_dense_factor,
+            r.method == Method::Literature,
+        )
+    };
+    key(a).cmp(&key(b)).then(a.cost.total_cmp(&b.cost))
+}
+
+/// True when g = 2^a·10^b·26^c, that is g = 2^x·5^y·13^z with x ≥ y + z.
+fn is_published_golay_length(g: u64) -> bool {
+    let mut rest = g;
+    let mut val = |p: u64| {
+        let mut k = 0;
+        while rest > 0 && rest.is_multiple_of(p) {
+            rest /= p;
+            k += 1;
+        }
+        k
+    };
+    let (x, y, z) = (val(2), val(5), val(13));
+    g > 0 && rest == 1 && x >= y + z
+}
+
+/// The planner: memoised best routes per order. Reuse one for many questions.
+pub struct Planner {
+    seeds: SeedIndex,
+    best: HashMap<u64, Option<Route>>,
+    skew: HashMap<u64, Option<Step>>,
+    golay: HashMap<u64, Option<Step>>,
+    tlen: HashMap<u64, Option<Step>>,
+    lit: &'static literature::Literature,
+    /// When set, only routes whose nodes all use these methods (and the literature entry).
+    only: Option<Vec<Method>>,
+}
+
+impl Default for Planner {
+    fn default() -> Self {
+        Self::new()
+    }
+}
+
+impl Planner {
+    /// A planner over the embedded seed catalogue and literature file.
+    pub fn new() -> Planner {
+        Planner::with_seeds(SeedIndex::embedded())
+    }
+
+    /// A planner over a given seed index.
+    pub fn with_seeds(seeds: SeedIndex) -> Planner {
+        Planner {
+            seeds,
+            best: HashMap::new(),
+            skew: HashMap::new(),
+            golay: HashMap::new(),
+            tlen: HashMap::new(),
+            lit: literature::embedded(),
+            only: None,
+        }
+    }
+
+    /// A planner that uses only the given methods (the literature entry is always kept), for
+    /// measuring what a subset of the constructions covers.
+    pub fn only(methods: &[Method]) -> Planner {
+        Planner {
+            only: Some(methods.to_vec()),
+            ..Planner::new()
+        }
+    }
+
+    /// The best route to order n, if any.
+    pub fn best(&mut self, n: u64) -> Option<Route> {
+        if let Some(r) = self.best.get(&n) {
+            return r.clone();
+        }
+        let r = self.routes(n).into_iter().next();
+        self.best.insert(n, r.clone());
+        r
+    }
+
+    /// The status of order n.
+    pub fn status(&mut self, n: u64) -> Status {
+        if !order_possible(n) {
+            return Status::Impossible;
+        }
+        let best = self.best(n);
+        match (&best, self.lit.verdict(n)) {
+            (Some(r), _) if r.buildable && n <= MAX_BUILD_ORDER => Status::Constructible,
+            (_, Verdict::Open(_)) => Status::Open,
+            (Some(_), _) => Status::Known,
+            (None, Verdict::Known(..)) => Status::Known,
+            (None, Verdict::Silent) => Status::Uncovered,
+        }
+    }
+
+    /// Everything about order n.
+    pub fn order_info(&mut self, n: u64) -> OrderInfo {
+        let status = self.status(n);
+        let mut routes = if order_possible(n) {
+            self.routes(n)
+        } else {
+            Vec::new()
+        };
+        if status == Status::Constructible {
+            routes.retain(|r| r.method != Method::Literature);
+        }
+        let mut per: HashMap<Method, usize> = HashMap::new();
+        routes.retain(|r| {
+            let k = per.entry(r.method).or_default();
+            *k += 1;
+            *k <= PER_METHOD
+        });
+        let literature = match self.lit.verdict(n) {
+            Verdict::Open(e) => Some(format!("open: {} ({})", e.note, e.reference)),
+            Verdict::Known(Some(e), _) => Some(format!("known: {} ({})", e.note, e.reference)),
+            Verdict::Known(None, r) => Some(format!("known: {} ({})", r.note, r.reference)),
+            Verdict::Silent => None,
+        };
+        let note = self.note(n, status, routes.first());
+        OrderInfo {
+            order: n,
+            status,
+            routes,
+            note,
+            literature,
+        }
+    }
+
+    fn note(&mut self, n: u64, status: Status, best: Option<&Route>) -> String {
+        match status {
+            Status::Impossible => {
+                let below = (1..n).rev().find(|&m| order_possible(m));
+                let above = n.checked_add(1).map(|s| s + (4 - s % 4) % 4);
+                let near = match (below, above) {
+                    (Some(b), Some(a)) => format!("the nearest possible orders are {b} and {a}"),
+                    (None, Some(a)) => format!("the smallest possible order above it is {a}"),
+                    (Some(b), None) => format!("the nearest possible order is {b}"),
+                    (None, None) => String::new(),
+                };
+                format!(
+                    "No Hadamard matrix of order {n} can exist: the order must be 1, 2 or a multiple of 4 (normalise the matrix and count where its first three rows agree); {near}."
+                )
+            }
+            Status::Constructible => format!(
+                "This program builds order {n} now, best by {} (largest dense factor {}).",
+                method_words(best.map_or(Method::Sylvester, |r| r.method)),
+                best.map_or(1, |r| r.largest_dense_factor)
+            ),
+            Status::Known if best.is_some_and(|r| r.buildable) => format!(
+                "Order {n} has a route this program could carry out, but it is above the build limit of {MAX_BUILD_ORDER} (a dense matrix of order n takes n²/8 bytes); it is known."
+            ),
+            Status::Known => format!(
+                "A Hadamard matrix of order {n} is known in the literature, but this program cannot build one yet; the routes below say how and where it was found."
+            ),
+            Status::Open => format!(
+                "No Hadamard matrix of order {n} is known to anyone: it is one of the open orders up to 2000 in the literature ({}).",
+                self.lit.open_orders().iter().map(u64::to_string).collect::<Vec<_>>().join(", ")
+            ),
+            Status::Uncovered => format!(
+                "Order {n} is not covered by any route this program knows. That does not make it open: no source we read lists the open orders above {}.",
+                self.lit.horizon()
+            ),
+        }
+    }
+
+    /// Every route for n, ranked best first.
+    pub fn routes(&mut self, n: u64) -> Vec<Route> {
+        let mut out = Vec::new();
+        if !order_possible(n) {
+            return out;
+        }
+        if n.is_power_of_two() {
+            out.push(route(step(
+                Method::Sylvester,
+                n,
+                vec![("k", json!(n.trailing_zeros()))],
+                refs::SYLVESTER,
+                vec![],
+            )));
+        }
+        if n < 4 {
+            return out;
+        }
+        if let Some(t) = self.paley_one(n) {
+            out.push(route(t));
+        }
+        if let Some(q) = Some(n / 2 - 1).filter(|&q| n % 8 == 4 && prime_power(q).is_some()) {
+            out.push(route(step(
+                Method::PaleyTwo,
+                n,
+                vec![("q", json!(q))],
+                refs::PALEY,
+                vec![],
+            )));
+        }
+        let s = isqrt(n);
+        if s * s == n && s >= 4 && prime_power(s - 1).is_some() && prime_power(s + 1).is_some() {
+            out.push(route(step(
+                Method::TwinPrimePower,
+                n,
+                vec![("q", json!(s - 1))],
+                refs::TWIN,
+                vec![],
+            )));
+        }
+        let divs = divisors(n);
+        // Kronecker products a·b, a ≤ b, both possible orders, not both powers of two.
+        for &a in divs.iter().filter(|&&a| a >= 2 && a <= n / a) {
+            let b = n / a;
+            if !(order_possible(a) && order_possible(b))
+                || (a.is_power_of_two() && b.is_power_of_two())
+            {
+                continue;
+            }
+            if let (Some(ra), Some(rb)) = (self.best(a), self.best(b)) {
+                out.push(route(step(
+                    Method::Kronecker,
+                    n,
+                    vec![],
+                    refs::KRONECKER,
+                    vec![ra.tree, rb.tree],
+                )));
+            }
+        }
+        // Conference products c·h, c = q+1 with q ≡ 1 mod 4, h a multiple of 4.
+        for &c in divs.iter().filter(|&&c| c >= 6 && c % 4 == 2) {
+            let h = n / c;
+            if !h.is_multiple_of(4) || prime_power(c - 1).is_none() {
+                continue;
+            }
+            if let Some(rh) = self.best(h) {
+                out.push(route(step(
+                    Method::ConferenceProduct,
+                    n,
+                    vec![("q", json!(c - 1))],
+                    refs::CONFERENCE,
+                    vec![rh.tree],
+                )));
+            }
+        }
+        let quarter = n / 4;
+        if let Some(w) = self.williamson_source(quarter) {
+            out.push(route(step(
+                Method::Williamson,
+                n,
+                vec![("m", json!(quarter))],
+                refs::WILLIAMSON,
+                vec![w],
+            )));
+        }
+        if let Some(e) = self.seeds.gs.get(&quarter) {
+            let [a, b, c, d] = &e.data.a;
+            let leaf = step(
+                Method::Seed,
+                quarter,
+                seq_params("gs", e, &[("a", a), ("b", b), ("c", c), ("d", d)]),
+                &e.provenance,
+                vec![],
+            );
+            out.push(route(step(
+                Method::GoethalsSeidel,
+                n,
+                vec![("v", json!(quarter))],
+                refs::GOETHALS_SEIDEL,
+                vec![leaf],
+            )));
+        }
+        if let Some(t) = self.t_source(quarter) {
+            out.push(route(step(
+                Method::TSequences,
+                n,
+                vec![("t", json!(quarter))],
+                refs::T_SEQUENCES,
+                vec![t],
+            )));
+        }
+        // Cooper–Wallis 4tw with t ≥ 2 a T-length and w ≥ 3 a Williamson order.
+        for &t in divisors(quarter)
+            .iter()
+            .filter(|&&t| t >= 2 && quarter / t >= 3)
+        {
+            let w = quarter / t;
+            let (Some(ts), Some(ws)) = (self.t_source(t), self.williamson_source(w)) else {
+                continue;
+            };
+            out.push(route(step(
+                Method::CooperWallis,
+                n,
+                vec![("t", json!(t)), ("w", json!(w))],
+                refs::COOPER_WALLIS,
+                vec![ts, ws],
+            )));
+        }
+        if n.is_multiple_of(8) {
+            if let Some(h) = self.skew_route(n / 2) {
+                out.push(route(step(
+                    Method::SkewDoubling,
+                    n,
+                    vec![],
+                    refs::SKEW_DOUBLING,
+                    vec![h],
+                )));
+            }
+        }
+        self.miyamoto_yamada(n, &mut out);
+        if let Verdict::Known(entry, rule) = self.lit.verdict(n) {
+            let (note, reference) = match entry {
+                Some(e) => (&e.note, &e.reference),
+                None => (&rule.note, &rule.reference),
+            };
+            out.push(route(step(
+                Method::Literature,
+                n,
+                vec![("note", json!(note))],
+                reference,
+                vec![],
+            )));
+        }
+        if let Some(only) = &self.only {
+            out.retain(|r| uses_only(&r.tree, only));
+        }
+        out.sort_by(rank);
+        out
+    }
+
+    fn paley_one(&self, n: u64) -> Option<Step> {
+        (n >= 4 && n.is_multiple_of(4) && prime_power(n - 1).is_some()).then(|| {
+            step(
+                Method::PaleyOne,
+                n,
+                vec![("q", json!(n - 1))],
+                refs::PALEY,
+                vec![],
+            )
+        })
+    }
+
+    /// A skew route to order h: Paley I, or skew doubling of a skew route to h/2.
+    fn skew_route(&mut self, h: u64) -> Option<Step> {
+        if let Some(s) = self.skew.get(&h) {
+            return s.clone();
+        }
+        let s = self.paley_one(h).or_else(|| {
+            (h.is_multiple_of(8))
+                .then(|| self.skew_route(h / 2))
+                .flatten()
+                .map(|c| {
+                    step(
+                        Method::SkewDoubling,
+                        h,
+                        vec![],
+                        refs::SKEW_DOUBLING,
+                        vec![c],
+                    )
+                })
+        });
+        self.skew.insert(h, s.clone());
+        s
+    }
+
+    fn miyamoto_yamada(&mut self, n: u64, out: &mut Vec<Route>) {
+        let q = n / 4;
+        if prime_power(q).is_some() && q % 4 == 1 {
+            if let Some(h) = self.best(q - 1) {
+                out.push(route(step(
+                    Method::Miyamoto,
+                    n,
+                    vec![("q", json!(q))],
+                    refs::MIYAMOTO,
+                    vec![h.tree],
+                )));
+            }
+            if q % 8 == 1 {
+                if let Some(h) = self.best((q - 1) / 2) {
+                    out.push(route(step(
+                        Method::Yamada,
+                        n,
+                        vec![("q", json!(q)), ("case", json!("i"))],
+                        refs::YAMADA,
+                        vec![h.tree],
+                    )));
+                }
+            }
+        }
+        if let Some(q) = q
+            .checked_sub(2)
+            .filter(|&q| q % 8 == 5 && prime_power(q).is_some())
+        {
+            if let Some(h) = self.skew_route((q + 3) / 2) {
+                out.push(route(step(
+                    Method::Yamada,
+                    n,
+                    vec![("q", json!(q)), ("case", json!("ii"))],
+                    refs::YAMADA,
+                    vec![h],
+                )));
+            }
+        }
+    }
+
+    /// Williamson matrices of order m: from the seed catalogue, Turyn's family, or a paper.
+    fn williamson_source(&self, m: u64) -> Option<Step> {
+        if let Some(e) = self.seeds.williamson.get(&m) {
+            let d = &e.data;
+            return Some(step(
+                Method::Seed,
+                m,
+                seq_params(
+                    "williamson",
+                    e,
+                    &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
+                ),
+                &e.provenance,
+                vec![],
+            ));
+        }
+        let turyn =
+            (m % 2 == 1 && m >= 3 && prime_power(2 * m - 1).is_some() && (2 * m - 1) % 4 == 1)
+                .then(|| {
+                    step(
+                        Method::TurynWilliamson,
+                        m,
+                        vec![("q", json!(2 * m - 1))],
+                        refs::TURYN_WILLIAMSON,
+                        vec![],
+                    )
+                });
+        if turyn.as_ref().is_some_and(|t| t.buildable) {
+            return turyn;
+        }
+        if WILLIAMSON_KNOWN.contains(&m) {
+            let reference = if m == 23 {
+                refs::WILLIAMSON_23
+            } else {
+                refs::WILLIAMSON_KNOWN
+            };
+            return Some(step(
+                Method::Published,
+                m,
+                vec![("kind", json!("williamson"))],
+                reference,
+                vec![],
+            ));
+        }
+        turyn
+    }
+
+    /// T-sequences of length t, best source first (buildable before published).
+    pub(crate) fn t_source(&mut self, t: u64) -> Option<Step> {
+        if let Some(s) = self.tlen.get(&t) {
+            return s.clone();
+        }
+        let mut cands: Vec<Step> = Vec::new();
+        if let Some(e) = self.seeds.tseq.get(&t) {
+            let [a, b, c, d] = &e.data.t;
+            cands.push(step(
+                Method::Seed,
+                t,
+                seq_params("tseq", e, &[("t1", a), ("t2", b), ("t3", c), ("t4", d)]),
+                &e.provenance,
+                vec![],
+            ));
+        }
+        if let Some(e) = self.seeds.base.get(&t) {
+            let d = &e.data;
+            let leaf = step(
+                Method::Seed,
+                d.a.len() as u64,
+                seq_params(
+                    "base",
+                    e,
+                    &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
+                ),
+                &e.provenance,
+                vec![],
+            );
+            cands.push(step(
+                Method::BaseToT,
+                t,
+                vec![],
+                refs::BASE_TO_T,
+                vec![leaf],
+            ));
+        }
+        if t % 3 == 2 {
+            let n = (t + 1) / 3;
+            let tt = if let Some(e) = self.seeds.turyn.get(&n) {
+                let d = &e.data;
+                Some(step(
+                    Method::Seed,
+                    n,
+                    seq_params(
+                        "turyn",
+                        e,
+                        &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
+                    ),
+                    &e.provenance,
+                    vec![],
+                ))
+            } else if n.is_multiple_of(2) && n <= 38 {
+                Some(step(
+                    Method::Published,
+                    n,
+                    vec![("kind", json!("turyn"))],
+                    if n == 36 { refs::TT36 } else { refs::TT_KNOWN },
+                    vec![],
+                ))
+            } else {
+                None
+            };
+            if let Some(tt) = tt {
+                let base = step(
+                    Method::TurynToBase,
+                    2 * n - 1,
+                    vec![("n", json!(n))],
+                    refs::TURYN_TO_BASE,
+                    vec![tt],
+                );
+                cands.push(step(
+                    Method::BaseToT,
+                    t,
+                    vec![],
+                    refs::BASE_TO_T,
+                    vec![base],
+                ));
+            }
+        }
+        for (g, part) in [
+            (Some(t), "g"),
+            (t.checked_sub(1), "g+1"),
+            ((t % 2 == 1).then(|| (t - 1) / 2), "2g+1"),
+        ] {
+            let Some(g) = g.filter(|&g| g >= 1) else {
+                continue;
+            };
+            if let Some(gs) = self.golay_source(g) {
+                cands.push(step(
+                    Method::GolayToT,
+                    t,
+                    vec![("g", json!(g)), ("part", json!(part))],
+                    refs::GOLAY_TO_T,
+                    vec![gs],
+                ));
+            }
+        }
+        cands.sort_by_key(|s| {
+            (
+                !s.buildable,
+                s.method == Method::GolayToT && param_u64(s, "g") != t,
+            )
+        });
+        let best = cands.into_iter().next();
+        self.tlen.insert(t, best.clone());
+        best
+    }
+
+    /// A Golay pair of length g: seed, doubling, product, or published (2^a·10^b·26^c).
+    fn golay_source(&mut self, g: u64) -> Option<Step> {
+        if let Some(s) = self.golay.get(&g) {
+            return s.clone();
+        }
+        let mut found = None;
+        if let Some(e) = self.seeds.golay.get(&g) {
+            let d = &e.data;
+            found = Some(step(
+                Method::Seed,
+                g,
+                seq_params("golay", e, &[("a", &d.a), ("b", &d.b)]),
+                &e.provenance,
+                vec![],
+            ));
+        }
+        if found.is_none() && g.is_multiple_of(2) && g > 2 {
+            if let Some(h) = self.golay_source(g / 2).filter(|h| h.buildable) {
+                found = Some(step(Method::GolayDoubling, g, vec![], refs::GOLAY, vec![h]));
+            }
+        }
+        if found.is_none() {
+            let seeds: Vec<u64> = self
+                .seeds
+                .golay
+                .keys()
+                .copied()
+                .filter(|&s| s > 2 && g.is_multiple_of(s) && g > s)
+                .collect();
+            for s in seeds {
+                if let (Some(a), Some(b)) = (
+                    self.golay_source(s),
+                    self.golay_source(g / s).filter(|b| b.buildable),
+                ) {
+                    found = Some(step(
+                        Method::GolayProduct,
+                        g,
+                        vec![],
+                        refs::GOLAY_PRODUCT,
+                        vec![a, b],
+                    ));
+                    break;
+                }
+            }
+        }
+        if found.is_none() && is_published_golay_length(g) {
+            found = Some(step(
+                Method::Published,
+                g,
+                vec![("kind", json!("golay"))],
+                refs::GOLAY_LENGTHS,
+                vec![],
+            ));
+        }
+        self.golay.insert(g, found.clone());
+        found
+    }
+}
+
+fn uses_only(s: &Step, only: &[Method]) -> bool {
+    (s.method == Method::Literature || only.contains(&s.method))
+        && s.children.iter().all(|c| uses_only(c, only))
+}
+
+fn method_words(m: Method) -> &'static str {
+    match m {
+        Method::Sylvester => "Sylvester's construction",
+        Method::PaleyOne => "Paley's first construction",
+        Method::PaleyTwo => "Paley's second construction",
+        Method::Kronecker => "a Kronecker product",
+        Method::ConferenceProduct => "a conference matrix product",
+        Method::TwinPrimePower => "the twin prime power construction",
+        Method::Williamson => "Williamson's array",
+        Method::GoethalsSeidel => "the Goethals–Seidel array",
+        Method::TSequences => "T-sequences in the Goethals–Seidel array",
+        Method::CooperWallis => "the Cooper–Wallis construction",
+        Method::SkewDoubling => "skew doubling",
+        _ => "a published construction",
+    }
+}
+
+/// ⌊√n⌋.
+pub(crate) fn isqrt(n: u64) -> u64 {
+    let mut r = (n as f64).sqrt() as u64;
+    while r * r > n {
+        r -= 1;
+    }
+    while (r + 1) * (r + 1) <= n {
+        r += 1;
+    }
+    r
+}

@@ -1,0 +1,323 @@
+//! Planner tests: statuses against the literature, coverage counts, dimensions, speed.
+
+use super::*;
+use std::time::Instant;
+
+fn status(n: u64) -> Status {
+    order_info(n).status
+}
+
+fn has_route(info: &OrderInfo, method: Method, reference_part: &str) -> bool {
+    fn walk(s: &Step, part: &str) -> bool {
+        s.reference.contains(part) || s.children.iter().any(|c| walk(c, part))
+    }
+    info.routes
+        .iter()
+        .any(|r| r.method == method && walk(&r.tree, reference_part))
+}
+
+#[test]
+fn statuses_of_landmark_orders() {
+    use Status::*;
+    // Standard theorem (constructions.md §1): orders other than 1, 2 and multiples of 4 are impossible.
+    assert_eq!((status(3), status(6)), (Impossible, Impossible));
+    // Sylvester 1867: orders 1 and 2.
+    assert_eq!((status(1), status(2)), (Constructible, Constructible));
+    // Paley 1933: 12 = 11 + 1.
+    assert_eq!(status(12), Constructible);
+    // Đoković, Combinatorica 28 (2008): 668 and 716 are open.
+    assert_eq!((status(668), status(716)), (Open, Open));
+    // Đoković, Golubitsky and Kotsireas, J. Combin. Des. 22 (2014): 1004 is known.
+    assert_eq!(status(1004), Known);
+    // constructions.md §1: 1336 = 2·668 and 1432 = 2·716 are known orders.
+    assert_eq!((status(1336), status(1432)), (Known, Known));
+}
+
+#[test]
+fn order_92_lists_williamson_23_with_its_paper() {
+    let info = order_info(92);
+    // Baumert, Golomb and Hall, Bull. Amer. Math. Soc. 68 (1962): Williamson matrices of order 23.
+    assert!(
+        has_route(&info, Method::Williamson, "Baumert, Golomb and Hall"),
+        "{info:#?}"
+    );
+    assert!(info.literature.as_deref().unwrap().contains("1962"));
+    if info.status == Status::Known {
+        assert!(info.routes.iter().any(|r| r.method == Method::Literature));
+    }
+}
+
+#[test]
+fn order_428_goes_through_tt36() {
+    let info = order_info(428);
+    // Kharaghani and Tayfeh-Rezaie, J. Combin. Des. 13 (2005): 428 from TT(36), T-length 3·36 − 1 = 107.
+    assert!(
+        has_route(&info, Method::TSequences, "Kharaghani and Tayfeh-Rezaie"),
+        "{info:#?}"
+    );
+    assert_ne!(info.status, Status::Open);
+}
+
+#[test]
+fn open_orders_have_no_route_and_others_up_to_2000_are_known() {
+    let open = [
+        668, 716, 892, 1132, 1244, 1388, 1436, 1676, 1772, 1916, 1948, 1964,
+    ];
+    for (n, s) in coverage(2000) {
+        // Đoković 2008 less 1004 (DGK 2014): exactly these are open up to 2000.
+        if open.contains(&n) {
+            assert_eq!(s, Status::Open, "{n}");
+            assert!(
+                order_info(n).routes.is_empty(),
+                "{n}: a route to an open order would be news"
+            );
+        } else {
+            assert!(
+                matches!(s, Status::Constructible | Status::Known),
+                "{n}: {s:?}"
+            );
+        }
+    }
+}
+
+#[test]
+fn known_order_counts() {
+    // Derived: 1208/4 = 302 multiples of 4 up to 1208, less the 4 open ones (668, 716, 892, 1132;
+    // survey arXiv 2411.18897) gives 298; 1 and 2 are not counted. Likewise 2000/4 = 500, less
+    // the 12 open orders, gives 488.
+    let known = |max| {
+        coverage(max)
+            .into_iter()
+            .filter(|&(n, s)| n >= 4 && matches!(s, Status::Constructible | Status::Known))
+            .count()
+    };
+    assert_eq!(known(1208), 298);
+    assert_eq!(known(2000), 488);
+}
+
+#[test]
+fn classical_constructions_cover_most_orders_up_to_1208() {
+    use Method::*;
+    let mut p = Planner::only(&[Sylvester, PaleyOne, PaleyTwo, Kronecker, ConferenceProduct]);
+    let n = (4..=1208)
+        .step_by(4)
+        .filter(|&n| p.status(n) == Status::Constructible)
+        .count();
+    // The brief's target: at least 230 of the 298 known orders up to 1208.
+    assert!(n >= 230, "{n}");
+    // constructions.md §2 #5: conference products add 520, 952 over Sylvester, Paley and Kronecker.
+    let mut without = Planner::only(&[Sylvester, PaleyOne, PaleyTwo, Kronecker]);
+    // FIXME: conference products are planned but construct has no conference product yet, so
+    // 520 and 952 stay known; when build.rs dispatches it this becomes (Constructible, Known).
+    for n in [520, 952] {
+        assert_eq!(
+            (p.status(n), without.status(n)),
+            (Status::Known, Status::Known),
+            "{n}"
+        );
+        assert!(
+            p.routes(n).iter().any(|r| r.method == ConferenceProduct),
+            "{n}"
+        );
+    }
+    // constructions.md §1: Paley and Kronecker cover every multiple of 4 up to 100 except 92.
+    for n in (4..=100).step_by(4) {
+        assert_eq!(without.status(n) == Status::Constructible, n != 92, "{n}");
+    }
+}
+
+#[test]
+fn dimensions_for_ml_users() {
+    // constructions.md §7: 13696 = 32·428, 10944 = 16·684, 3584 = 128·28, 1152 = 32·36.
+    for (d, a, m0) in [
+        (13696, 5, 428),
+        (10944, 4, 684),
+        (3584, 7, 28),
+        (1152, 5, 36),
+    ] {
+        let adv = dimension_advice(d);
+        let first = &adv.options[0];
+        assert_eq!((first.power_of_two, first.dense), (a, m0), "{adv:#?}");
+        assert_eq!(first.factored, format!("2^{a} · {m0}"));
+    }
+    assert_eq!(dimension_advice(13696).options[0].status, Status::Known);
+    assert!(dimension_advice(6).options.is_empty());
+    assert!(dimension_advice(6).note.contains("multiple of 4"));
+    // 4·668 = 2672 = 2·1336: 1336 is known, 668 is open.
+    let adv = dimension_advice(2672);
+    assert_eq!(
+        adv.options
+            .iter()
+            .map(|f| f.dense)
+            .collect::<Vec<_>>()
+            .first(),
+        Some(&1336)
+    );
+    assert!(adv.blocked.iter().any(|f| f.dense == 668));
+    assert_eq!(dimension_advice(1 << 20).options[0].factored, "2^20");
+}
+
+#[test]
+fn smallest_orders_at_least_k() {
+    assert_eq!(smallest_known_at_least(665).unwrap().order, 672);
+    assert_eq!(smallest_known_at_least(668).unwrap().order, 672);
+    assert_eq!(smallest_known_at_least(3).unwrap().order, 4);
+    assert_eq!(smallest_constructible_at_least(1).unwrap().order, 1);
+    let c = smallest_constructible_at_least(92).unwrap();
+    assert!(c.order >= 92 && c.status == Status::Constructible);
+}
+
+#[test]
+fn huge_orders_answer_fast() {
+    let t = Instant::now();
+    let info = order_info(1_000_000_000_000);
+    assert!(t.elapsed().as_millis() < 2000, "{:?}", t.elapsed());
+    // 10^12 = 2^12 · 5^12 = 2^10 · 4·5^12, and 5^12 ≡ 1 mod 4: Paley II of q = 5^12 gives 2(5^12 + 1).
+    assert!(
+        matches!(info.status, Status::Constructible | Status::Known),
+        "{info:?}"
+    );
+    for n in [999_999_999_996u64, 1 << 40, 4 * 1_000_000_007] {
+        let t = Instant::now();
+        let _ = order_info(n);
+        assert!(t.elapsed().as_millis() < 2000, "{n}: {:?}", t.elapsed());
+    }
+}
+
+#[test]
+fn above_2000_is_never_called_open() {
+    for (n, s) in coverage(6000).into_iter().filter(|&(n, _)| n > 2000) {
+        assert_ne!(s, Status::Open, "{n}");
+    }
+    // 2·1004: twice a known order is known.
+    assert!(matches!(
+        status(2008),
+        Status::Known | Status::Constructible
+    ));
+}
+
+#[test]
+fn ranking_prefers_buildable_then_small_dense_factor() {
+    let info = order_info(24);
+    // 24 = 6·4 as a conference product has dense factor 6; 2·12 as a Kronecker product 12;
+    // both beat Paley I's 24 (q = 23).
+    let dense = |m| {
+        info.routes
+            .iter()
+            .find(|r| r.method == m)
+            .map(|r| r.largest_dense_factor)
+    };
+    assert!(info.routes[0].buildable);
+    assert_eq!(
+        (
+            dense(Method::ConferenceProduct),
+            dense(Method::Kronecker),
+            dense(Method::PaleyOne)
+        ),
+        (Some(6), Some(12), Some(24))
+    );
+    assert!(info
+        .routes
+        .iter()
+        .any(|r| r.method == Method::PaleyOne && r.skew));
+    for w in info.routes.windows(2) {
+        assert!(
+            (!w[0].buildable, w[0].largest_dense_factor)
+                <= (!w[1].buildable, w[1].largest_dense_factor)
+        );
+    }
+}
+
+#[test]
+fn json_shape_follows_the_interface() {
+    let v = serde_json::to_value(order_info(12)).unwrap();
+    // interface.md: {"order": N, "status": S, "routes": [...]}.
+    assert_eq!(v["order"], 12);
+    assert_eq!(v["status"], "constructible");
+    assert!(v["routes"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|r| r["method"] == "paley_one"));
+    assert_eq!(
+        serde_json::to_value(Status::Uncovered).unwrap(),
+        "uncovered"
+    );
+    assert_eq!(
+        serde_json::to_value(Method::ConferenceProduct).unwrap(),
+        "conference_product"
+    );
+    assert_eq!(
+        serde_json::to_value(order_info(6)).unwrap()["status"],
+        "impossible"
+    );
+    assert!(order_info(6).note.contains("4 and 8"));
+}
+
+#[test]
+fn every_constructible_order_up_to_400_builds_and_verifies() {
+    // The full sweep to 1208 is `cargo bench --bench build_all` (release): debug builds are slow.
+    let mut p = Planner::new();
+    for n in [1u64, 2].into_iter().chain((4..=400).step_by(4)) {
+        if p.status(n) != Status::Constructible {
+            continue;
+        }
+        let info = p.order_info(n);
+        let v = build(&info.routes[0]).unwrap_or_else(|e| panic!("{n}: {e}"));
+        assert_eq!(v.order() as u64, n);
+        // numpy-free restatement of the definition: H·Hᵀ = nI, decided by verify::is_hadamard.
+        assert!(crate::verify::is_hadamard(v.matrix()), "{n}");
+    }
+}
+
+#[test]
+fn build_order_explains_failures() {
+    assert!(matches!(
+        build_order(668),
+        Err(BuildError::NoRoute {
+            status: Status::Open,
+            ..
+        })
+    ));
+    assert!(matches!(
+        build_order(6),
+        Err(BuildError::NoRoute {
+            status: Status::Impossible,
+            ..
+        })
+    ));
+    assert!(matches!(
+        build_order(1 << 40),
+        Err(BuildError::TooLarge { .. })
+    ));
+    assert_eq!(build_order(12).unwrap().order(), 12);
+    // Above the build limit a buildable route makes the order known, not constructible.
+    assert_eq!(status(1 << 20), Status::Known);
+    assert!(order_info(1 << 20).note.contains("build limit"));
+}
+
+#[test]
+fn recipe_round_trip_gives_the_same_matrix() {
+    for n in [24u64, 48, 60, 108] {
+        let info = order_info(n);
+        let route = info.routes.iter().find(|r| r.buildable).unwrap();
+        let first = build(route).unwrap();
+        let mut recipe = recipe_for(route);
+        assert_eq!(recipe.format, RECIPE_FORMAT);
+        recipe.id = Some(first.id().to_string());
+        let json = serde_json::to_string(&recipe).unwrap();
+        let back: Recipe = serde_json::from_str(&json).unwrap();
+        assert_eq!(build_recipe(&back).unwrap().id(), first.id(), "{n}");
+        let mut wrong = back.clone();
+        wrong.id = Some("0".repeat(64));
+        assert!(matches!(
+            build_recipe(&wrong),
+            Err(BuildError::IdMismatch { .. })
+        ));
+        wrong.order += 4;
+        assert!(matches!(
+            build_recipe(&wrong),
+            Err(BuildError::BadRecipe(_))
+        ));
+    }
+}

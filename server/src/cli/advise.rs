@@ -1,0 +1,63 @@
+//! `hadamard advise`: answers for people who need a size rather than an order.
+//!
+//! `--dimension D` lists every exact factorisation D = 2^a·m₀ through an order m₀ that is
+//! constructible or known, smallest dense factor first (H_{2^a} ⊗ H_{m₀} then has size D and
+//! only an m₀×m₀ dense part). `--at-least K` gives the smallest order ≥ K that is known, and the
+//! smallest this program can build.
+
+use hadamard_core::route::{self, OrderInfo};
+use serde_json::json;
+use std::process::ExitCode;
+
+#[derive(clap::Args)]
+pub struct AdviseArgs {
+    /// Print JSON.
+    #[arg(long)]
+    json: bool,
+    /// The dimension to factor.
+    #[arg(long, value_name = "D", required_unless_present = "at_least", conflicts_with = "at_least")]
+    dimension: Option<u64>,
+    /// The smallest known order at least this.
+    #[arg(long, value_name = "K")]
+    at_least: Option<u64>,
+}
+
+pub fn run(args: AdviseArgs) -> ExitCode {
+    if let Some(d) = args.dimension {
+        let a = route::dimension_advice(d);
+        if args.json {
+            println!("{}", serde_json::to_string_pretty(&a).unwrap_or_default());
+        } else {
+            println!("dimension {d}: {}", a.note);
+            for f in &a.options {
+                println!("  {:<16} order {} is {}", f.factored, f.dense, status_name(&f.status));
+            }
+            for f in &a.blocked {
+                println!("  {:<16} (only through order {}, which is {})", f.factored, f.dense, status_name(&f.status));
+            }
+        }
+        return ExitCode::SUCCESS;
+    }
+    let k = args.at_least.unwrap_or(1);
+    let known = route::smallest_known_at_least(k);
+    let built = route::smallest_constructible_at_least(k);
+    if args.json {
+        let short = |o: &Option<OrderInfo>| o.as_ref().map(|i| json!({"order": i.order, "status": i.status}));
+        println!("{}", serde_json::to_string_pretty(&json!({"at_least": k, "smallest_known": short(&known), "smallest_constructible": short(&built)})).unwrap_or_default());
+    } else {
+        match &known {
+            Some(i) => println!("smallest known order ≥ {k}: {} ({})", i.order, status_name(&i.status)),
+            None => println!("no known order ≥ {k} within the planner's reach"),
+        }
+        if let Some(b) = &built {
+            if known.as_ref().map(|i| i.order) != Some(b.order) {
+                println!("smallest this program builds: {}", b.order);
+            }
+        }
+    }
+    ExitCode::SUCCESS
+}
+
+fn status_name<T: serde::Serialize>(s: &T) -> String {
+    serde_json::to_value(s).ok().and_then(|v| v.as_str().map(str::to_string)).unwrap_or_default()
+}
