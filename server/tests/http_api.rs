@@ -219,7 +219,7 @@ fn refusals_400_413_422() {
     let mut npy = b"\x93NUMPY\x01\x00".to_vec();
     let header = "{'descr': '|i1', 'fortran_order': False, 'shape': (40000, 40000), }";
     let mut h = header.to_owned();
-    while (10 + h.len() + 1) % 64 != 0 {
+    while !(10 + h.len() + 1).is_multiple_of(64) {
         h.push(' ');
     }
     h.push('\n');

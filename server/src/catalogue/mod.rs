@@ -127,7 +127,7 @@ impl Catalogue {
             Err(report) => Ok(UploadOutcome::NotHadamard(report)),
             Ok(v) => {
                 let ingested = self.ingest(&v, Provenance::Uploaded { format: parsed.format.name().to_owned() }).map_err(UploadError::Store)?;
-                Ok(UploadOutcome::Stored(ingested))
+                Ok(UploadOutcome::Stored(Box::new(ingested)))
             }
         }
     }
@@ -203,7 +203,7 @@ pub fn certify_stored(id: &str, n: usize, blob: &[u8]) -> Result<Verified, Strin
 
 /// The answer to an upload that could be read.
 pub enum UploadOutcome {
-    Stored(Ingested),
+    Stored(Box<Ingested>),
     NotHadamard(Box<Report>),
     HasErasures { order: usize, erased: usize },
 }
