@@ -197,6 +197,22 @@ fn upload_lookup_download_and_restart() {
     assert_eq!(a["checked"], 2);
     assert_eq!(a["failed"], 0);
     assert_eq!(a["integrity_check"][0], "ok");
+
+    // A damaged blob (one sign flipped behind the server's back) is found by audit and never
+    // served: the download fails re-verification.
+    {
+        let c = rusqlite::Connection::open(&db).expect("open the database");
+        let mut bits: Vec<u8> = c.query_row("SELECT bits FROM matrices WHERE id = ?1", [&id], |r| r.get(0)).expect("the blob");
+        bits[8] ^= 1;
+        c.execute("UPDATE matrices SET bits = ?1 WHERE id = ?2", rusqlite::params![bits, id]).expect("damage it");
+    }
+    let out = hadamard().args(["audit", "--db"]).arg(&db).output().expect("run audit");
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stdout).contains(&format!("FAILED {id}")));
+    let s = Server::start(&db, &[]);
+    let r = s.get(&format!("/api/matrices/{id}/download?format=pm"));
+    assert_eq!(r.status, 500);
+    assert!(r.json()["error"].as_str().is_some_and(|e| e.contains("re-verification")));
 }
 
 #[test]
