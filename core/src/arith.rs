@@ -2,10 +2,12 @@
 //!
 //! One idea: everything fits in a `u64`, and products are taken in `u128`, so no step can
 //! overflow or round. Primality is the Miller–Rabin test with the first twelve primes as bases,
-//! which is deterministic for every n < 3.3·10²⁴, hence for all of `u64` (Sorenson and Webster,
-//! "Strong pseudoprimes to twelve prime bases", Math. Comp. 86, 2017). Factoring is trial
+//! which has no strong pseudoprime below about 3.2·10²³, far above 2⁶⁴ (Sorenson and Webster,
+//! "Strong pseudoprimes to twelve prime bases", Math. Comp. 86, 2017 \[recalled\]); the sympy
+//! cross-check in `tests/python` confirms the decisions independently. Factoring is trial
 //! division by small primes, then Pollard's rho in Brent's form (Brent, "An improved Monte Carlo
-//! factorization algorithm", BIT 20, 1980) on what is left, each factor confirmed prime.
+//! factorization algorithm", BIT 20, 1980 \[recalled\]) on what is left, each factor confirmed
+//! prime.
 
 /// The bases that make Miller–Rabin deterministic on all of `u64`.
 const MR_BASES: [u64; 12] = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
@@ -237,10 +239,11 @@ mod tests {
         // The largest prime below 2^64 is 2^64 − 59 [recalled, standard].
         assert!(is_prime(u64::MAX - 58));
         assert!(!is_prime(u64::MAX));
-        // 3215031751 = 151·751·28351 is a strong pseudoprime to bases 2, 3, 5, 7 [recalled].
+        // 3215031751 = 151·751·28351 is a strong pseudoprime to bases 2, 3, 5, 7 [recalled; re-derived
+        // with Python's pow].
         assert!(!is_prime(3_215_031_751));
-        // 3825123056546413051 is a strong pseudoprime to the bases 2..23 [recalled, Jaeschke-type
-        // record]; the base 29 or 31 or 37 must catch it.
+        // 3825123056546413051 is a strong pseudoprime to every prime base 2..31 [recalled; re-derived
+        // with Python's pow], so only the base 37 catches it.
         assert!(!is_prime(3_825_123_056_546_413_051));
         // Carmichael number 561 = 3·11·17 [standard].
         assert!(!is_prime(561));
@@ -254,7 +257,6 @@ mod tests {
         assert_eq!(prime_power(1024), Some((2, 10)));
         assert_eq!(prime_power(36), None);
         assert_eq!(prime_power(1 << 63), Some((2, 63)));
-        // 3^40 and 3^40 + 2.
         assert_eq!(prime_power(3u64.pow(40)), Some((3, 40)));
         assert_eq!(
             prime_power(((1u64 << 31) - 1).pow(2)),

@@ -42,6 +42,8 @@ enum Command {
     Serve(cli::serve::ServeArgs),
     /// Re-verify every matrix stored in a catalogue database; exit 1 if any fails.
     Audit(cli::audit::AuditArgs),
+    /// Search for sequence data (Williamson, Golay, base, Turyn-type, Goethals–Seidel).
+    Search(cli::search::SearchArgs),
 }
 
 fn main() -> ExitCode {
@@ -55,5 +57,6 @@ fn main() -> ExitCode {
         Command::Advise(a) => cli::advise::run(a),
         Command::Serve(a) => cli::serve::run(a),
         Command::Audit(a) => cli::audit::run(a),
+        Command::Search(a) => cli::search::run(a),
     }
 }

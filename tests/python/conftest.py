@@ -22,7 +22,7 @@ def dump_dir(tmp_path_factory):
         return pathlib.Path(given)
     out = tmp_path_factory.mktemp("hadamard-dump")
     subprocess.run(
-        ["cargo", "run", "-q", "-p", "hadamard-core", "--example", "dump_fields", "--", str(out)],
+        ["cargo", "run", "-q", "--release", "-p", "hadamard-core", "--example", "dump_fields", "--", str(out)],
         cwd=REPO,
         check=True,
     )

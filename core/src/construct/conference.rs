@@ -9,9 +9,8 @@
 //! M = C ⊗ H + I_c ⊗ (K·H)
 //! ```
 //!
-//! is Hadamard of order c·h. This is the form of the brief's item 5; the identity behind it is
-//! the usual one for conference matrices (compare Paley 1933 and Belevitch's conference
-//! networks, Electr. Commun. 27, 1950). Derivation: K is skew and orthogonal (KKᵀ = I), so
+//! is Hadamard of order c·h. The identity behind it is the usual one for conference matrices
+//! (compare Paley 1933 \[recalled\]). Derivation: K is skew and orthogonal (KKᵀ = I), so
 //!
 //! ```text
 //! MMᵀ = CCᵀ ⊗ HHᵀ + C ⊗ (HHᵀKᵀ) + Cᵀ ⊗ (KHHᵀ) + I ⊗ (KHHᵀKᵀ)
@@ -55,8 +54,8 @@ mod tests {
     use crate::construct::{paley_conference, paley_one, paley_two, sylvester};
 
     #[test]
-    fn brief_cases_6x4_14x12_6x20() {
-        // The brief (item 5) records 6·4, 14·12 and 6·20 as checked [derived].
+    fn cases_6x4_14x12_6x20() {
+        // Orders 6·4, 14·12 and 6·20: the cases the derivation was first checked on [derived].
         let c6 = paley_conference(5).unwrap();
         let c14 = paley_conference(13).unwrap();
         assert_eq!(

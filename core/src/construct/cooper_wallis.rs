@@ -2,7 +2,7 @@
 //! give a Hadamard matrix of order 4tw.
 //!
 //! Reference: J. Cooper and J. S. Wallis, "A construction for Hadamard arrays", Bull. Austral.
-//! Math. Soc. 7 (1972) 269–277 [recalled]; the Baumert–Hall route of the brief, item 12.
+//! Math. Soc. 7 (1972) \[recalled\]; the route through Baumert–Hall arrays.
 //!
 //! With Xᵢ = circ(Tᵢ) (t × t, entries 0, ±1, exactly one Xᵢ nonzero at each place) and
 //! Williamson A, B, C, D of order w, put
@@ -15,10 +15,13 @@
 //! ```
 //!
 //! Each Yᵢ is ±1 and group-developed over G = Z_t × Z_w: (X⊗A) at ((i, k), (j, l)) is
-//! T[j − i]·a[l − k]. They commute, and ΣYᵢYᵢᵀ = 4tw·I: the cross terms cancel because the
-//! Williamson blocks are symmetric and commute, and the Xᵢ terms sum to Σ XᵢXᵢᵀ ⊗ (A² + …) with
-//! Σ XᵢXᵢᵀ = tI (periodic sums of T-sequences vanish). They then fill the Goethals–Seidel array
-//! with R the permutation x ↦ −x of G, which satisfies YR = RYᵀ for every group-developed Y.
+//! T[j − i]·a[l − k]; so the Yᵢ commute. Write Yᵢ = Σⱼ Xⱼ ⊗ Wᵢⱼ, where (Wᵢⱼ) is the 4×4
+//! array of signed blocks above. Then ΣᵢYᵢYᵢᵀ = Σⱼ,ₖ XⱼXₖᵀ ⊗ Σᵢ WᵢⱼWᵢₖᵀ, and
+//! Σᵢ WᵢⱼWᵢₖᵀ = δⱼₖ(A² + B² + C² + D²) = δⱼₖ·4wI: the columns of (Wᵢⱼ) are orthogonal because
+//! the blocks are symmetric and commute (for columns 1 and 2: AB − BA + CD − DC = 0). So ΣᵢYᵢYᵢᵀ = (Σⱼ XⱼXⱼᵀ) ⊗ 4wI = 4tw·I, since the periodic
+//! autocorrelations of T-sequences sum to 0 off shift 0 and to t at shift 0. The Yᵢ then fill the
+//! Goethals–Seidel array with R the permutation x ↦ −x of G, which satisfies YR = RYᵀ for every
+//! group-developed Y, as the back-identity does for circulants.
 
 use super::arrays::{Group, Reversal};
 use super::goethals_seidel::gs_matrix;
@@ -76,7 +79,7 @@ mod tests {
             b: vec![1, -1],
         };
         let mut ts: Vec<TSequences> = cat.t_sequences.iter().map(|e| e.data.clone()).collect();
-        // T-lengths 2, 3, 5 from the Golay pair of length 2 (the brief, item 11).
+        // T-lengths 2, 3, 5 from the Golay pair of length 2 (see construct::t_sequences).
         ts.extend(golay_to_t(&g2));
         for t in &ts {
             for e in &cat.williamson {
@@ -84,7 +87,7 @@ mod tests {
                 assert_eq!(h.order(), 4 * t.len() * e.data.m());
             }
         }
-        // t = 3, w = 3 → 36, as checked in the brief (item 12) [derived].
+        // t = 3, w = 3 → 36, the case the derivation was first checked on [derived].
         let t3 = &golay_to_t(&g2)[1];
         let w3 = &cat
             .williamson

@@ -1,7 +1,7 @@
 //! The Goethals–Seidel array.
 //!
 //! Theorem (J. M. Goethals and J. J. Seidel, "A skew Hadamard matrix of order 36", J. Austral.
-//! Math. Soc. 11, 1970, 343–344): if A₀, A₁, A₂, A₃ are circulant ±1 matrices of order v with
+//! Math. Soc. 11, 1970 \[title recalled\]): if A₀, A₁, A₂, A₃ are circulant ±1 matrices of order v with
 //! Σ AᵢAᵢᵀ = 4vI — equivalently, their first rows have periodic autocorrelations summing to 0
 //! off shift 0 — and R is the back-identity, then
 //!

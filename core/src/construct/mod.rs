@@ -7,7 +7,7 @@
 //! bad input data that slipped past its own check) comes back as the check's report rather
 //! than as a matrix. Nothing here returns an unchecked `Matrix` that claims to be Hadamard.
 //!
-//! The array constructions share one builder ([`arrays`]): a 4×4 array of group-developed
+//! The array constructions share one crate-private builder (`arrays`): a 4×4 array of group-developed
 //! blocks, some multiplied by a reversal R on either side, written straight into bits.
 
 pub mod conference;

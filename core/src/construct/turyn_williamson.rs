@@ -2,7 +2,7 @@
 //! matrices of order m = (q + 1)/2.
 //!
 //! Reference: R. J. Turyn, "An infinite class of Williamson matrices", J. Combin. Theory A 12
-//! (1972) 319–321 (the statement [read]). The construction below is derived here from
+//! (1972) (the statement \[read\]). The construction below is derived here from
 //! that statement's idea — a symmetric conference matrix of order q + 1 made of circulant
 //! blocks — and every output is checked with `Williamson::is_valid` before it is returned.
 //!

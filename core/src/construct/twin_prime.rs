@@ -2,7 +2,7 @@
 //! of order (q + 1)².
 //!
 //! Reference: R. G. Stanton and D. A. Sprott, "A family of difference sets", Canad. J. Math. 10
-//! (1958) 73–77 [recalled]. The difference set and the bordering are derived here and the
+//! (1958) 73–77 \[recalled\]. The difference set and the bordering are derived here and the
 //! result goes through the exact check.
 //!
 //! Let G = GF(q) × GF(q + 2), of order v = q(q + 2), with χ and χ' the quadratic characters.

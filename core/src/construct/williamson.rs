@@ -1,7 +1,7 @@
 //! The Williamson array, and its quaternion-type generalisation.
 //!
 //! Theorem (J. Williamson, "Hadamard's determinant theorem and the sum of four squares", Duke
-//! Math. J. 11, 1944, 65–81): if A, B, C, D are symmetric circulant ±1 matrices of order m with
+//! Math. J. 11, 1944): if A, B, C, D are symmetric circulant ±1 matrices of order m with
 //! A² + B² + C² + D² = 4mI, then
 //!
 //! ```text
@@ -15,7 +15,7 @@
 //! cancel in pairs.)
 //!
 //! The same array is Hadamard for other commuting-or-anticommuting families too ("quaternion
-//! type" or Williamson type). The brief records a published order-140 example (m = 35, where
+//! type" or Williamson type). A published order-140 example (m = 35, where
 //! Williamson matrices do not exist): A, B, D circulant and C the circulant of c with its
 //! columns reversed (circ(c)·R, R the back-identity). [`quaternion_array`] builds the array
 //! from any such blocks; the exact check decides whether it is Hadamard.
@@ -110,7 +110,8 @@ mod tests {
     #[test]
     fn order_140_quaternion_example() {
         // The m = 35 quaternion-type example from the encyclopedia article on the Williamson
-        // conjecture (2019), as quoted in the brief §3 [read]: it must verify as H·Hᵀ = 140·I.
+        // conjecture (2019 example) [read, via the project's constructions notes]: it must verify as
+        // H·Hᵀ = 140·I.
         let a = from_text("--+--+--+++-+----+-+++--+--+-------").unwrap();
         let b = from_text("+---+---+-++-+--+-++-+---+---++++++").unwrap();
         let c = from_text("-++---+-+--+--++--+++++-+-+++++-+--").unwrap();

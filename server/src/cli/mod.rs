@@ -10,4 +10,5 @@ pub mod output;
 pub mod progress;
 pub mod routes;
 pub mod serve;
+pub mod search;
 pub mod verify;

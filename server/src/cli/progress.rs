@@ -27,16 +27,3 @@ impl Spinner {
         }
     }
 }
-
-/// A bar with a rate and an estimated time left, for work of known length.
-pub fn bar(total: u64, msg: &str) -> ProgressBar {
-    if !std::io::stderr().is_terminal() {
-        return ProgressBar::hidden();
-    }
-    let pb = ProgressBar::new(total);
-    if let Ok(style) = ProgressStyle::with_template("{msg} [{bar:30}] {pos}/{len} {per_sec} eta {eta}") {
-        pb.set_style(style.progress_chars("=> "));
-    }
-    pb.set_message(msg.to_string());
-    pb
-}

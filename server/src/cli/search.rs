@@ -1,0 +1,456 @@
+//! `hadamard search`: run one of core's sequence searches, with a progress bar, checkpoints,
+//! shards, and results printed as seed-catalogue lines.
+//!
+//! The search itself is `hadamard_core::search`; this command owns what core must not do: the
+//! terminal (indicatif), the checkpoint file, Ctrl-C, and appending to the catalogue files.
+//! Exit 0: the shard finished (whether or not it found anything; the summary says). Exit 1: it
+//! was stopped (Ctrl-C) before finishing; the checkpoint holds its state. Exit 2: usage or
+//! I/O error.
+
+use hadamard_core::construct::sequences::{to_text, GolayPair};
+use hadamard_core::search::{self, aperiodic, goethals_seidel, williamson, Checkpoint, Hooks, RunConfig, Search, Shard};
+use hadamard_core::seed::SeedCatalogue;
+use indicatif::{ProgressBar, ProgressStyle};
+use serde_json::json;
+use std::collections::BTreeMap;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::time::Instant;
+
+#[derive(clap::Args)]
+pub struct SearchArgs {
+    #[command(subcommand)]
+    kind: Kind,
+}
+
+#[derive(clap::Subcommand)]
+enum Kind {
+    /// Williamson quadruples of odd order m (symmetric circulants, A²+B²+C²+D² = 4mI).
+    Williamson {
+        /// The odd order m of each block.
+        #[arg(long)]
+        order: usize,
+        #[command(flatten)]
+        what: What,
+        #[command(flatten)]
+        common: Common,
+    },
+    /// Golay pairs of length g by backtracking (practical to about g = 34), or with
+    /// `--products` every length 2^a·10^b·26^c up to `--max-length` by Turyn's product and
+    /// Golay's doubling from the catalogue's pairs.
+    Golay {
+        /// The length g to search.
+        #[arg(long, required_unless_present = "products")]
+        length: Option<usize>,
+        /// Build the longer lengths from the pairs already in the seed catalogue.
+        #[arg(long)]
+        products: bool,
+        /// With --products: the longest length to build.
+        #[arg(long, default_value_t = 500)]
+        max_length: usize,
+        #[command(flatten)]
+        what: What,
+        #[command(flatten)]
+        common: Common,
+    },
+    /// Base sequences BS(n+1, n): T-sequences of length 2n+1, order 4(2n+1).
+    Base {
+        /// The parameter n (C and D have length n; A and B have length n+1).
+        #[arg(long)]
+        n: usize,
+        #[command(flatten)]
+        what: What,
+        #[command(flatten)]
+        common: Common,
+    },
+    /// Turyn-type sequences TT(n): BS(2n−1, n), T-sequences of length 3n−1, order 4(3n−1).
+    Turyn {
+        /// The parameter n (A, B, C of length n, D of length n−1).
+        #[arg(long)]
+        n: usize,
+        #[command(flatten)]
+        what: What,
+        #[command(flatten)]
+        common: Common,
+    },
+    /// Goethals–Seidel quadruples: four ±1 sequences of length v, periodic autocorrelations
+    /// summing to 0; order 4v.
+    Gs {
+        /// The length v.
+        #[arg(long)]
+        v: usize,
+        #[command(flatten)]
+        what: What,
+        #[command(flatten)]
+        common: Common,
+    },
+    /// Combine the outputs of several shards (or runs): the union, one line per result.
+    Merge {
+        /// Files written by `hadamard search ... --json` or its text output (seed lines).
+        files: Vec<PathBuf>,
+        /// Print a JSON object instead of seed lines.
+        #[arg(long)]
+        json: bool,
+        /// Also append the results that are not there yet to this seed-catalogue file.
+        #[arg(long)]
+        append_to: Option<PathBuf>,
+    },
+}
+
+/// What to report.
+#[derive(clap::Args)]
+struct What {
+    /// Report one representative per equivalence class (Williamson and Turyn-type), running to
+    /// the end.
+    #[arg(long, conflicts_with_all = ["all", "limit"])]
+    classes: bool,
+    /// Report every (normalised) solution, running to the end.
+    #[arg(long, conflicts_with = "limit")]
+    all: bool,
+    /// Stop after the first batch that brings the number of results to at least N.
+    #[arg(long, default_value_t = 1)]
+    limit: usize,
+}
+
+/// Options every search takes.
+#[derive(clap::Args)]
+struct Common {
+    /// Run only shard i of k (0 ≤ i < k): shards are disjoint and together are the whole search.
+    #[arg(long, default_value = "0/1")]
+    shard: Shard,
+    /// Keep the state in this JSON file: resume from it if it exists, save it after every batch.
+    #[arg(long)]
+    checkpoint: Option<PathBuf>,
+    /// Units per batch (checkpoint and progress granularity; part of a limited run's identity).
+    #[arg(long, default_value_t = 64)]
+    batch: usize,
+    /// Print one JSON object on stdout instead of seed lines.
+    #[arg(long)]
+    json: bool,
+    /// Also append the results that are not there yet to this seed-catalogue file.
+    #[arg(long)]
+    append_to: Option<PathBuf>,
+    /// No progress bar.
+    #[arg(long)]
+    quiet: bool,
+}
+
+static STOP: AtomicBool = AtomicBool::new(false);
+
+pub fn run(args: SearchArgs) -> ExitCode {
+    let command = provenance_command(std::env::args().skip(1));
+    match args.kind {
+        Kind::Williamson { order, what, common } => {
+            if order % 2 == 0 || order > 127 {
+                eprintln!("error: --order must be odd and at most 127");
+                return ExitCode::from(2);
+            }
+            let mode = if what.classes { williamson::Mode::Classes } else { williamson::Mode::Solutions };
+            let s = williamson::WilliamsonSearch::new(order, mode, true);
+            drive(&s, &what, &common, &command)
+        }
+        Kind::Golay { length, products, max_length, what, common } => {
+            if products {
+                return golay_products(max_length, &common, &command);
+            }
+            let g = length.unwrap_or(0);
+            let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Golay(g), aperiodic::Mode::Solutions);
+            drive(&s, &what, &common, &command)
+        }
+        Kind::Base { n, what, common } => {
+            let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Base(n), aperiodic::Mode::Solutions);
+            drive(&s, &what, &common, &command)
+        }
+        Kind::Turyn { n, what, common } => {
+            let mode = if what.classes { aperiodic::Mode::Classes } else { aperiodic::Mode::Solutions };
+            let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(n), mode);
+            drive(&s, &what, &common, &command)
+        }
+        Kind::Gs { v, what, common } => {
+            let s = goethals_seidel::GsSearch::new(v);
+            drive(&s, &what, &common, &command)
+        }
+        Kind::Merge { files, json, append_to } => merge(&files, json, append_to.as_deref()),
+    }
+}
+
+/// The command line as the provenance states it: the search and its parameters, without the
+/// options that only say where output and state go (the shard is stated separately).
+fn provenance_command(args: impl Iterator<Item = String>) -> String {
+    const WITH_VALUE: [&str; 4] = ["--checkpoint", "--append-to", "--shard", "--batch"];
+    const FLAGS: [&str; 2] = ["--json", "--quiet"];
+    let mut kept = vec!["hadamard".to_string()];
+    let mut skip_next = false;
+    for a in args {
+        if std::mem::take(&mut skip_next) {
+            continue;
+        }
+        let name = a.split('=').next().unwrap_or("");
+        if WITH_VALUE.contains(&name) {
+            skip_next = !a.contains('=');
+            continue;
+        }
+        if FLAGS.contains(&a.as_str()) {
+            continue;
+        }
+        kept.push(a);
+    }
+    kept.join(" ")
+}
+
+fn today() -> String {
+    // Days since 1970-01-01 to a civil date (Hinnant's algorithm), so no date crate is needed.
+    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs()).unwrap_or(0);
+    let z = (secs / 86_400) as i64 + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+fn watch_ctrl_c() {
+    std::thread::spawn(|| {
+        let Ok(rt) = tokio::runtime::Builder::new_current_thread().enable_all().build() else { return };
+        rt.block_on(async {
+            if tokio::signal::ctrl_c().await.is_ok() {
+                eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
+                STOP.store(true, Ordering::SeqCst);
+            }
+            if tokio::signal::ctrl_c().await.is_ok() {
+                std::process::exit(130);
+            }
+        });
+    });
+}
+
+fn load_checkpoint(path: &Path) -> Result<Option<Checkpoint>, String> {
+    match std::fs::read_to_string(path) {
+        Ok(text) => serde_json::from_str(&text).map(Some).map_err(|e| format!("{}: not a search checkpoint: {e}", path.display())),
+        Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(None),
+        Err(e) => Err(format!("{}: {e}", path.display())),
+    }
+}
+
+fn save_checkpoint(path: &Path, c: &Checkpoint) -> std::io::Result<()> {
+    let tmp = path.with_extension("json.tmp");
+    std::fs::write(&tmp, serde_json::to_vec_pretty(c)?)?;
+    std::fs::rename(tmp, path)
+}
+
+fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitCode {
+    let resume = match common.checkpoint.as_deref().map(load_checkpoint).transpose() {
+        Ok(c) => c.flatten(),
+        Err(e) => {
+            eprintln!("error: {e}");
+            return ExitCode::from(2);
+        }
+    };
+    let limit = (!what.classes && !what.all).then_some(what.limit.max(1));
+    let config = RunConfig { shard: common.shard, limit, batch: common.batch };
+    let bar = if common.quiet { ProgressBar::hidden() } else { ProgressBar::new(0) };
+    bar.set_style(ProgressStyle::with_template("{spinner} [{elapsed_precise}] {wide_bar} {pos}/{len} units  {per_sec}  ETA {eta}  {msg}").unwrap_or_else(|_| ProgressStyle::default_bar()));
+    watch_ctrl_c();
+    let progress = |done: u64, total: u64| {
+        bar.set_length(total);
+        bar.set_position(done);
+    };
+    let mut save_error = None;
+    let mut save = |c: &Checkpoint| {
+        bar.set_message(format!("{} found", c.results.len()));
+        if let Some(p) = &common.checkpoint {
+            if let Err(e) = save_checkpoint(p, c) {
+                save_error.get_or_insert(e.to_string());
+            }
+        }
+    };
+    let start = Instant::now();
+    let state = match search::run(s, config, resume, Hooks { progress: &progress, checkpoint: &mut save, stop: &STOP }) {
+        Ok(st) => st,
+        Err(e) => {
+            bar.abandon();
+            eprintln!("error: {e}");
+            return ExitCode::from(2);
+        }
+    };
+    bar.finish_and_clear();
+    if let Some(e) = save_error {
+        eprintln!("warning: could not save the checkpoint: {e}");
+    }
+    let elapsed = start.elapsed().as_secs_f64();
+    let provenance = format!("found by {command} (shard {}); {}", common.shard, today());
+    let lines: Vec<String> = state.results.iter().map(|r| format!("{r} | {provenance}")).collect();
+    if let Some(bad) = first_rejected(&lines) {
+        eprintln!("error: a result failed its identity (a bug in the search): {bad}");
+        return ExitCode::from(2);
+    }
+    if common.json {
+        let v = json!({
+            "search": state.search,
+            "shard": common.shard.to_string(),
+            "finished": state.finished,
+            "units_done": state.next,
+            "units_total": state.total,
+            "elapsed_s": elapsed,
+            "results": lines,
+        });
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+    } else {
+        for l in &lines {
+            println!("{l}");
+        }
+    }
+    eprintln!(
+        "{}: {} result(s), {}/{} units of shard {} in {elapsed:.1} s{}",
+        state.search,
+        lines.len(),
+        state.next,
+        state.total,
+        common.shard,
+        if state.finished { "" } else { " (stopped: resume with the same --checkpoint)" }
+    );
+    if let Some(p) = &common.append_to {
+        if let Err(e) = append_new(p, &lines) {
+            eprintln!("error: {}: {e}", p.display());
+            return ExitCode::from(2);
+        }
+    }
+    if state.finished {
+        ExitCode::SUCCESS
+    } else {
+        ExitCode::from(1)
+    }
+}
+
+/// The first line that the seed parser rejects, if any.
+fn first_rejected(lines: &[String]) -> Option<String> {
+    let mut cat = SeedCatalogue::default();
+    cat.add_text("result", &lines.join("\n"));
+    cat.rejected.first().map(|(_, m)| m.clone())
+}
+
+/// The data part of a seed line (before `|`), trimmed.
+fn data_part(line: &str) -> &str {
+    line.split_once('|').map_or(line, |(d, _)| d).trim()
+}
+
+/// Appends the lines whose data is not in the file yet.
+fn append_new(path: &Path, lines: &[String]) -> std::io::Result<()> {
+    let existing = std::fs::read_to_string(path).unwrap_or_default();
+    let known: std::collections::HashSet<&str> = existing.lines().map(data_part).collect();
+    let mut f = std::fs::OpenOptions::new().create(true).append(true).open(path)?;
+    let mut added = 0;
+    for l in lines {
+        if !known.contains(data_part(l)) {
+            writeln!(f, "{l}")?;
+            added += 1;
+        }
+    }
+    eprintln!("{}: {added} new line(s) appended", path.display());
+    Ok(())
+}
+
+fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>) -> ExitCode {
+    // Keyed by the data part, so the same result from two shards appears once (with the
+    // provenance of the first file that has it).
+    let mut all: BTreeMap<String, String> = BTreeMap::new();
+    for f in files {
+        let text = match std::fs::read_to_string(f) {
+            Ok(t) => t,
+            Err(e) => {
+                eprintln!("error: {}: {e}", f.display());
+                return ExitCode::from(2);
+            }
+        };
+        let lines: Vec<String> = match serde_json::from_str::<serde_json::Value>(&text) {
+            Ok(v) => v["results"].as_array().map(|a| a.iter().filter_map(|x| x.as_str().map(String::from)).collect()).unwrap_or_default(),
+            Err(_) => text.lines().map(str::trim).filter(|l| !l.is_empty() && !l.starts_with('#')).map(String::from).collect(),
+        };
+        for l in lines {
+            all.entry(data_part(&l).to_string()).or_insert(l);
+        }
+    }
+    let lines: Vec<String> = all.into_values().collect();
+    if let Some(bad) = first_rejected(&lines) {
+        eprintln!("error: an input line is not a valid seed entry: {bad}");
+        return ExitCode::from(2);
+    }
+    if json {
+        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+    } else {
+        for l in &lines {
+            println!("{l}");
+        }
+    }
+    eprintln!("merged {} file(s): {} distinct result(s)", files.len(), lines.len());
+    if let Some(p) = append_to {
+        if let Err(e) = append_new(p, &lines) {
+            eprintln!("error: {}: {e}", p.display());
+            return ExitCode::from(2);
+        }
+    }
+    ExitCode::SUCCESS
+}
+
+/// Every Golay length 2^a·10^b·26^c ≤ `max` reachable from the catalogue's pairs by Turyn's
+/// product and doubling, shortest construction first.
+fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
+    let cat = hadamard_core::seed::embedded();
+    let mut known: BTreeMap<usize, (GolayPair, String)> = BTreeMap::new();
+    for e in &cat.golay {
+        known.entry(e.data.len()).or_insert((e.data.clone(), format!("the catalogue pair of length {}", e.data.len())));
+    }
+    let seeds: Vec<usize> = known.keys().copied().collect();
+    let mut built: Vec<(GolayPair, String)> = Vec::new();
+    loop {
+        let lens: Vec<usize> = known.keys().copied().collect();
+        let mut added = false;
+        for &x in &lens {
+            for &y in &seeds {
+                let n = x * y;
+                if n > max || known.contains_key(&n) || y < 2 || x < 2 {
+                    continue;
+                }
+                if let Some(g) = aperiodic::golay_product(&known[&x].0, &known[&y].0) {
+                    let how = format!("Turyn's product of the pairs of lengths {x} and {y}");
+                    built.push((g.clone(), how.clone()));
+                    known.insert(n, (g, how));
+                    added = true;
+                }
+            }
+        }
+        if !added {
+            break;
+        }
+    }
+    let date = today();
+    let lines: Vec<String> = built
+        .iter()
+        .map(|(g, how)| format!("golay g={} a={} b={} | built by {command}: {how}; {date}", g.len(), to_text(&g.a), to_text(&g.b)))
+        .collect();
+    if let Some(bad) = first_rejected(&lines) {
+        eprintln!("error: a product failed the identity (a bug): {bad}");
+        return ExitCode::from(2);
+    }
+    if common.json {
+        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+    } else {
+        for l in &lines {
+            println!("{l}");
+        }
+    }
+    eprintln!("built {} Golay pair(s) of new lengths ≤ {max}", lines.len());
+    if let Some(p) = &common.append_to {
+        if let Err(e) = append_new(p, &lines) {
+            eprintln!("error: {}: {e}", p.display());
+            return ExitCode::from(2);
+        }
+    }
+    ExitCode::SUCCESS
+}

@@ -1,0 +1,185 @@
+//! The page of one catalogue entry, `/m/{id}`.
+//!
+//! The metadata comes from `/api/matrices/{id}`. The picture is drawn from the entry's
+//! canonical `pm` download, read by core here; the page also hashes those rows and says whether
+//! they match the id, so the link is checked in the reader's own browser.
+
+use crate::api;
+use crate::lookup::{fetch, provenance_words};
+use crate::picture::MatrixPicture;
+use crate::verify::absolute;
+use hadamard_core::formats::{self, Format, ReadOptions};
+use hadamard_core::Matrix;
+use leptos::prelude::*;
+use leptos::task::spawn_local;
+use serde_json::Value;
+use std::sync::Arc;
+use wasm_bindgen_futures::JsFuture;
+
+/// Orders above this are not downloaded for the picture (the server's PNG is shown instead).
+const PICTURE_MAX_ORDER: u64 = 4096;
+
+/// Every download, with its conventions in words.
+const DOWNLOADS: [(&str, &str, &str); 8] = [
+    ("pm", "Plus/minus text (.txt)", "One row per line, + for +1 and - for −1, each row ended by a newline. This is the canonical text: its SHA-256 is the id."),
+    ("csv", "CSV (.csv)", "The integers 1 and -1 separated by commas, one row per line."),
+    ("bits", "Bits (.txt)", "Rows of the digits 0 and 1, where 1 means −1 and 0 means +1; a first comment line states this mapping."),
+    ("json", "JSON (.json)", "An array of rows, each an array of 1 and -1."),
+    ("npy", "NumPy, int8 (.npy)", "Entries 1 and -1 as 8-bit integers; not scaled."),
+    ("npy-f64", "NumPy, float64 (.npy)", "Entries 1.0 and -1.0; not scaled."),
+    ("npy-f64-scaled", "NumPy, float64 scaled (.npy)", "Entries ±1/√n, so H/√n is orthogonal and each row has length 1. Scaled is not normalized: normalized means the first row and column are all +1."),
+    ("png", "Picture (.png)", "+1 warm off-white, −1 deep ink blue, one square of pixels per entry, about 512 pixels wide."),
+];
+
+fn facts_list(v: &Value) -> Vec<(String, String)> {
+    match v.as_object() {
+        Some(o) => o.iter().map(|(k, val)| (k.replace('_', " "), api::plain(val))).collect(),
+        None => match v {
+            Value::Null => Vec::new(),
+            other => vec![(String::new(), api::plain(other))],
+        },
+    }
+}
+
+fn dl(items: Vec<(String, String)>) -> impl IntoView {
+    view! {
+        <dl class="facts">
+            {items.into_iter().map(|(k, v)| view! { <dt>{k}</dt><dd>{v}</dd> }).collect_view()}
+        </dl>
+    }
+}
+
+#[component]
+pub fn Entry(id: String) -> impl IntoView {
+    let meta = fetch(format!("/api/matrices/{id}"));
+    let matrix = RwSignal::new(None::<Result<Arc<Matrix>, String>>);
+    let copied = RwSignal::new(None::<String>);
+    let permalink = absolute(&format!("/m/{id}"));
+
+    // The picture: fetch the canonical text once the order is known to be small enough.
+    let fetch_started = StoredValue::new(false);
+    let id_pic = id.clone();
+    Effect::new(move |_| {
+        let Some(Ok(r)) = meta.get() else { return };
+        if !r.ok() || fetch_started.get_value() {
+            return;
+        }
+        fetch_started.set_value(true);
+        if api::u(&r.body, "order").unwrap_or(0) > PICTURE_MAX_ORDER {
+            return;
+        }
+        let url = format!("/api/matrices/{id_pic}/download?format=pm");
+        spawn_local(async move {
+            let got = match api::get_bytes(&url).await {
+                Ok((200, bytes)) => {
+                    let opts = ReadOptions { format: Some(Format::Pm), ..ReadOptions::default() };
+                    formats::read(&bytes, &opts).map(|p| Arc::new(p.matrix)).map_err(|e| format!("the download could not be read: {e}"))
+                }
+                Ok((status, _)) => Err(format!("the download answered {status}")),
+                Err(e) => Err(e),
+            };
+            matrix.set(Some(got));
+        });
+    });
+
+    let link_for_copy = permalink.clone();
+    let copy = move |_| {
+        let url = link_for_copy.clone();
+        spawn_local(async move {
+            let clip = crate::app::window().navigator().clipboard();
+            let ok = JsFuture::from(clip.write_text(&url)).await.is_ok();
+            copied.set(Some(if ok { "Copied the permanent link.".into() } else { "Could not copy; select the link above and copy it.".into() }));
+        });
+    };
+
+    let id_view = id.clone();
+    let id_check = id.clone();
+    let id_dl = id.clone();
+    view! {
+        <h1 tabindex="-1">"A Hadamard matrix"</h1>
+        <section class="card">
+            <p class="label">"Permanent link"</p>
+            <div class="permalink">
+                <input type="text" readonly aria-label="Permanent link" prop:value=permalink.clone() id="permalink-text"
+                    on:focus=move |ev| { let i: web_sys::HtmlInputElement = event_target(&ev); i.select(); } />
+                <button type="button" class="primary" on:click=copy id="copy-link">"Copy link"</button>
+            </div>
+            <p class="help" aria-live="polite">{move || copied.get()}</p>
+            <p class="label">"Id (SHA-256 of the canonical text)"</p>
+            <p><code class="id" id="entry-id">{id_view}</code></p>
+        </section>
+        {move || match meta.get() {
+            None => view! { <p class="waiting">"Loading…"</p> }.into_any(),
+            Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
+            Some(Ok(r)) if r.status == 404 => view! {
+                <section class="card"><p class="bad">"No matrix with this id is in the catalogue."</p>
+                <p>"Ids are SHA-256 hashes of the canonical text, so a mistyped link matches nothing. "<a href="/verify">"Verify and publish a matrix"</a>" to create one."</p></section>
+            }.into_any(),
+            Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
+            Some(Ok(r)) => {
+                let b = r.body;
+                let order = api::u(&b, "order").unwrap_or(0);
+                let props = b.get("properties").cloned().unwrap_or(Value::Null);
+                let prop_items: Vec<(String, String)> = ["normalized", "symmetric", "skew", "regular"]
+                    .into_iter()
+                    .map(|k| (k.to_string(), match api::b(&props, k) { Some(true) => "yes".into(), Some(false) => "no".into(), None => "—".into() }))
+                    .chain(props.get("excess").map(|e| ("excess".to_string(), api::plain(e))))
+                    .collect();
+                let prov = b.get("provenance").cloned().unwrap_or(Value::Null);
+                let prov_line = provenance_words(Some(&prov));
+                let verification = b.get("verification").cloned().unwrap_or(Value::Null);
+                let order_link = format!("/orders/{order}");
+                let big = order > PICTURE_MAX_ORDER;
+                let png = format!("/api/matrices/{}/download?format=png", id_check);
+                view! {
+                    <section class="card" aria-labelledby="about-title">
+                        <h2 id="about-title">{format!("Order {order}")}</h2>
+                        <p>"See "<a href=order_link>{format!("everything about order {order}")}</a>"."</p>
+                        <h3>"Properties"</h3>
+                        {dl(prop_items)}
+                        <h3>"Provenance"</h3>
+                        {(!prov_line.is_empty()).then(|| view! { <p>{prov_line}</p> })}
+                        {dl(facts_list(&prov))}
+                        <h3>"Verification record"</h3>
+                        {dl(facts_list(&verification))}
+                    </section>
+                    <section class="card" aria-labelledby="picture-title">
+                        <h2 id="picture-title">"Picture"</h2>
+                        {if big {
+                            view! { <img class="png" src=png alt=format!("Picture of the matrix of order {order}") /> }.into_any()
+                        } else {
+                            let id_check = id_check.clone();
+                            (move || match matrix.get() {
+                                None => view! { <p class="waiting">"Drawing…"</p> }.into_any(),
+                                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
+                                Some(Ok(m)) => {
+                                    let matches = hadamard_core::id::matrix_id(&m) == id_check;
+                                    view! {
+                                        <MatrixPicture matrix=m label=format!("Picture of the matrix of order {order}: light squares are +1, dark squares −1.") />
+                                        <p class=if matches { "good" } else { "bad" } id="id-check">
+                                            {if matches { "Checked in your browser: the downloaded rows hash to this id." } else { "Warning: the downloaded rows do not hash to this id." }}
+                                        </p>
+                                    }.into_any()
+                                }
+                            }).into_any()
+                        }}
+                    </section>
+                }.into_any()
+            }
+        }}
+        <section class="card" aria-labelledby="downloads-title">
+            <h2 id="downloads-title">"Downloads"</h2>
+            <ul class="downloads">
+                {DOWNLOADS.iter().map(|(f, name, conv)| {
+                    let href = format!("/api/matrices/{id_dl}/download?format={f}");
+                    view! {
+                        <li>
+                            <a href=href download="" data-format=*f>{*name}</a>
+                            <span class="conv">{*conv}</span>
+                        </li>
+                    }
+                }).collect_view()}
+            </ul>
+        </section>
+    }
+}
