@@ -19,6 +19,9 @@ fn env_or(name: &str, default: u64) -> u64 {
     std::env::var(name).ok().and_then(|v| v.parse().ok()).unwrap_or(default)
 }
 
+/// One scenario's request maker: (client, k) → (method, path, body, expected status).
+type Op = Arc<dyn Fn(u64, u64) -> (String, String, Vec<u8>, u16) + Send + Sync>;
+
 struct Outcome {
     requests: usize,
     errors: usize,
@@ -28,7 +31,7 @@ struct Outcome {
 }
 
 /// Runs `op` from `clients` threads for `secs`; `op(client, k)` returns the expected status.
-fn run(addr: SocketAddr, clients: u64, secs: u64, op: Arc<dyn Fn(u64, u64) -> (String, String, Vec<u8>, u16) + Send + Sync>) -> Outcome {
+fn run(addr: SocketAddr, clients: u64, secs: u64, op: Op) -> Outcome {
     let start = Instant::now();
     let deadline = start + Duration::from_secs(secs);
     let errors = Arc::new(AtomicU64::new(0));
@@ -71,7 +74,6 @@ fn main() {
     let dup = sylvester_variant(5, 12345);
     request(addr, "POST", "/api/matrices", &[], dup.as_bytes());
 
-    type Op = Arc<dyn Fn(u64, u64) -> (String, String, Vec<u8>, u16) + Send + Sync>;
     let get = |path: String, want: u16| -> Op { Arc::new(move |_, _| ("GET".into(), path.clone(), Vec::new(), want)) };
     let scenarios: Vec<(&str, Op)> = vec![
         ("GET /api/health", get("/api/health".into(), 200)),
