@@ -46,8 +46,28 @@ enum Command {
     Search(cli::search::SearchArgs),
 }
 
+/// Restores the default SIGPIPE action, so `hadamard coverage --max 2000 | head` ends quietly
+/// like any Unix tool instead of panicking in `println!` (Rust ignores SIGPIPE by default).
+#[cfg(unix)]
+fn default_sigpipe() {
+    extern "C" {
+        fn signal(signum: i32, handler: usize) -> usize;
+    }
+    const SIGPIPE: i32 = 13;
+    const SIG_DFL: usize = 0;
+    // SAFETY: setting a signal's action to the default at start-up, before any thread exists.
+    unsafe {
+        signal(SIGPIPE, SIG_DFL);
+    }
+}
+
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    // The server keeps Rust's default (SIGPIPE ignored): a client hanging up must not end it.
+    #[cfg(unix)]
+    if !matches!(cli.command, Command::Serve(_)) {
+        default_sigpipe();
+    }
     match cli.command {
         Command::Verify(a) => cli::verify::run(a),
         Command::Convert(a) => cli::convert::run(a),
