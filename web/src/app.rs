@@ -36,9 +36,9 @@ pub fn document() -> web_sys::Document {
     window().document().expect("the window has a document")
 }
 
-/// The current location, path and query, as the router sees it.
-#[derive(Clone, Copy)]
-pub struct Location(pub RwSignal<String>);
+/// The current location, path and query, as the router sees it. Global rather than a context,
+/// because the document's link listener runs outside any reactive owner.
+static LOCATION: std::sync::OnceLock<RwSignal<String>> = std::sync::OnceLock::new();
 
 fn current_location() -> String {
     let l = window().location();
@@ -50,7 +50,7 @@ pub fn navigate(url: &str) {
     if let Ok(h) = window().history() {
         let _ = h.push_state_with_url(&JsValue::NULL, "", Some(url));
     }
-    if let Some(Location(loc)) = use_context::<Location>() {
+    if let Some(loc) = LOCATION.get() {
         loc.set(url.to_string());
     }
     after_navigation();
@@ -148,8 +148,7 @@ fn intercept_links() {
 
 #[component]
 fn App() -> impl IntoView {
-    let loc = RwSignal::new(current_location());
-    provide_context(Location(loc));
+    let loc = *LOCATION.get_or_init(|| RwSignal::new(current_location()));
     intercept_links();
     let on_pop = Closure::<dyn Fn()>::new(move || loc.set(current_location()));
     let _ = window().add_event_listener_with_callback("popstate", on_pop.as_ref().unchecked_ref());

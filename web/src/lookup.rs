@@ -219,7 +219,7 @@ fn StrataAnswer(k: u64) -> impl IntoView {
 }
 
 /// One node of a route tree, with its children.
-fn node_view(v: &Value, top: u64) -> AnyView {
+pub fn node_view(v: &Value, top: u64) -> AnyView {
     let method = api::s(v, "method").unwrap_or("").to_string();
     let order = api::u(v, "order").unwrap_or(0);
     let buildable = api::b(v, "buildable").unwrap_or(false);
@@ -307,23 +307,6 @@ fn properties_tags(p: Option<&Value>) -> impl IntoView {
     }
 }
 
-/// Provenance in a few words, whatever shape the server gives it.
-pub fn provenance_words(v: Option<&Value>) -> String {
-    match v {
-        None | Some(Value::Null) => String::new(),
-        Some(Value::String(s)) => s.clone(),
-        Some(o) => {
-            let kind = api::s(o, "kind").or_else(|| api::s(o, "source")).unwrap_or("");
-            let method = api::s(o, "method").or_else(|| api::s(o, "route")).map(method_name);
-            match (kind, method) {
-                (_, Some(m)) => format!("built by {m}"),
-                ("", None) => String::new(),
-                (k, None) => k.to_string(),
-            }
-        }
-    }
-}
-
 #[component]
 fn StoredMatrices(n: u64) -> impl IntoView {
     let reply = fetch(format!("/api/orders/{n}/matrices"));
@@ -347,7 +330,12 @@ fn StoredMatrices(n: u64) -> impl IntoView {
                             {items.into_iter().map(|m| {
                                 let id = api::s(&m, "id").unwrap_or_default().to_string();
                                 let short = format!("{}…", &id[..id.len().min(16)]);
-                                let prov = provenance_words(m.get("provenance"));
+                                let prov = match api::s(&m, "origin") {
+                                    Some("constructed") => "built by this program".to_string(),
+                                    Some("uploaded") => format!("uploaded {}", api::s(&m, "created_at").unwrap_or_default()),
+                                    Some(o) => o.to_string(),
+                                    None => String::new(),
+                                };
                                 view! {
                                     <li>
                                         <a class="id" href=format!("/m/{id}")>{short}</a>" "

@@ -57,6 +57,8 @@ struct Outcome {
     fix: Option<Fix>,
     matrix: Arc<Matrix>,
     marked: Vec<usize>,
+    /// Time to read the input, and to check it, in milliseconds.
+    read_ms: f64,
     millis: f64,
 }
 
@@ -73,7 +75,7 @@ enum Phase {
 enum Publish {
     Idle,
     Sending,
-    Stored { id: String, url: String, existed: bool, similar: Vec<String> },
+    Stored { id: String, url: String, existed: bool, similar: Vec<String>, note: Option<String> },
     Refused(String),
 }
 
@@ -108,7 +110,10 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
     phase.set(Phase::Reading);
     next_tick().await;
     let opts = ReadOptions { format, ..ReadOptions::default() };
-    let parsed = match formats::read(&bytes, &opts) {
+    let read_start = now_ms();
+    let parsed = formats::read(&bytes, &opts);
+    let read_ms = now_ms() - read_start;
+    let parsed = match parsed {
         Ok(p) => p,
         Err(e) => {
             phase.set(Phase::Malformed(e.to_string()));
@@ -175,6 +180,7 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
         fix,
         matrix: Arc::new(m),
         marked,
+        read_ms,
         millis,
     }));
 }
@@ -192,32 +198,14 @@ fn size_words(bytes: usize) -> String {
     }
 }
 
-fn similar_ids(body: &Value) -> Vec<String> {
-    let v = body.get("possibly_equivalent").or_else(|| body.get("possibly_equivalent_to")).or_else(|| body.get("equivalent"));
-    let mut out = Vec::new();
-    match v {
-        Some(Value::Array(items)) => {
-            for it in items {
-                match it {
-                    Value::String(s) => out.push(s.clone()),
-                    Value::Object(_) => {
-                        if let Some(id) = api::s(it, "id") {
-                            out.push(id.to_string());
-                        }
-                    }
-                    _ => {}
-                }
-            }
-        }
-        Some(Value::String(s)) => out.push(s.clone()),
-        Some(Value::Object(_)) => {
-            if let Some(id) = v.and_then(|o| api::s(o, "id")) {
-                out.push(id.to_string());
-            }
-        }
-        _ => {}
-    }
-    out
+/// The ids the server found possibly equivalent (same invariant), and its note about them.
+fn equivalence_of(body: &Value) -> (Vec<String>, Option<String>) {
+    let e = body.get("equivalence").unwrap_or(&Value::Null);
+    let ids = api::arr(e, "possibly_equivalent_to")
+        .iter()
+        .filter_map(|v| v.as_str().map(str::to_string).or_else(|| api::s(v, "id").map(str::to_string)))
+        .collect();
+    (ids, api::s(e, "note").map(str::to_string))
 }
 
 /// The verify screen: input, progress, verdict, picture, repairs, publishing.
@@ -284,7 +272,8 @@ pub fn VerifyPanel(
                 Ok(r) if r.status == 200 || r.status == 201 => {
                     let id = api::s(&r.body, "id").unwrap_or_default().to_string();
                     let url = api::s(&r.body, "url").map(str::to_string).unwrap_or_else(|| format!("/m/{id}"));
-                    Publish::Stored { existed: r.status == 200, similar: similar_ids(&r.body).into_iter().filter(|s| *s != id).collect(), id, url }
+                    let (similar, note) = equivalence_of(&r.body);
+                    Publish::Stored { existed: r.status == 200, similar: similar.into_iter().filter(|s| *s != id).collect(), note, id, url }
                 }
                 Ok(r) if r.status == 413 => Publish::Refused("The file is larger than the server accepts.".into()),
                 Ok(r) => Publish::Refused(format!("The server refused it: {}", r.error())),
@@ -297,6 +286,10 @@ pub fn VerifyPanel(
         Phase::Done(o) if o.hadamard => Some("hadamard"),
         Phase::Done(_) => Some("not-hadamard"),
         Phase::Malformed(_) => Some("error"),
+        _ => None,
+    };
+    let timing = move |which: u8| match phase.get() {
+        Phase::Done(o) => Some(format!("{:.1}", if which == 0 { o.read_ms } else { o.millis })),
         _ => None,
     };
     let verdict_class = move || match verdict_attr() {
@@ -358,7 +351,8 @@ pub fn VerifyPanel(
                 </div>
             </div>
 
-            <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr>
+            <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr
+                data-read-ms=move || timing(0) data-check-ms=move || timing(1)>
                 {move || match phase.get() {
                     Phase::Idle => view! { <p class="waiting">"No matrix checked yet."</p> }.into_any(),
                     Phase::Reading => view! { <p class="waiting">"Reading…"</p> }.into_any(),
@@ -395,7 +389,7 @@ pub fn VerifyPanel(
                                 Publish::Idle => ().into_any(),
                                 Publish::Sending => view! { <p>"Sending…"</p> }.into_any(),
                                 Publish::Refused(msg) => view! { <p class="bad" id="publish-error">{msg}</p> }.into_any(),
-                                Publish::Stored { id, url, existed, similar } => {
+                                Publish::Stored { id, url, existed, similar, note } => {
                                     let href = format!("/m/{id}");
                                     let full = absolute(&url);
                                     view! {
@@ -410,9 +404,10 @@ pub fn VerifyPanel(
                                                     let short = format!("{}…", &s[..s.len().min(12)]);
                                                     view! { <a href=h class="id">{short}</a>" " }
                                                 }).collect_view()}
-                                                "(same order and invariants; equivalence is not proved)."
+                                                "(they share its invariant, which does not prove equivalence)."
                                             </p>
                                         })}
+                                        {note.map(|n| view! { <p class="help" id="equivalence-note">{format!("Equivalence: {n}.")}</p> })}
                                         <p><a href=href class="button">"Open its page"</a></p>
                                     }.into_any()
                                 }
@@ -522,7 +517,7 @@ fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy 
             <dt>"Read as"</dt><dd>{o.format.name()}</dd>
             <dt>"Id"</dt><dd><code class="id" id="local-id">{r.sha256.clone()}</code></dd>
             <dt>"Properties"</dt><dd>{format!("{props} (excess {})", p.excess)}</dd>
-            <dt>"Check"</dt><dd>{format!("{}, in this browser, {:.0} ms", r.check, o.millis)}</dd>
+            <dt>"Check"</dt><dd>{format!("{}, in this browser: read in {:.0} ms, checked in {:.0} ms", r.check, o.read_ms, o.millis)}</dd>
         </dl>
         {small_enough.then(|| view! { <MatrixPicture matrix=o.matrix.clone() marked=o.marked.clone() cell=cell label=label /> })}
     }
