@@ -30,6 +30,7 @@ export async function startServer() {
       if (m) { clearTimeout(timer); ok(m[0]); }
     });
     child.on('exit', (code) => { clearTimeout(timer); fail(new Error(`the server exited with ${code}:\n${stderr}`)); });
+    child.on('error', (e) => { clearTimeout(timer); fail(new Error(`cannot start ${bin}: ${e.message} (build it with cargo build --release, or set HADAMARD_BIN)`)); });
   });
   for (let i = 0; i < 100; i++) {
     try { if ((await fetch(`${url}/api/health`)).ok) break; } catch { /* not yet */ }

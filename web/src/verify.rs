@@ -147,6 +147,8 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
     }
     let report = progressive.finish();
     let millis = now_ms() - start;
+    // The id and properties were a pass of their own; let the page breathe before drawing.
+    next_tick().await;
     let erasures = parsed.erasures.len();
     let hadamard = report.hadamard && erasures == 0;
     let mut fix = None;
