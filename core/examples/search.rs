@@ -1,14 +1,34 @@
 //! Temporary driver for searches while the `hadamard search` CLI cannot be built (the server
 //! crate waits for `formats`): `search KIND PARAM [LIMIT]`, printing seed-catalogue lines.
-use hadamard_core::search::{aperiodic, goethals_seidel, run, williamson, Hooks, RunConfig, Search};
+use hadamard_core::search::{
+    aperiodic, goethals_seidel, run, williamson, Hooks, RunConfig, Search,
+};
 use std::sync::atomic::AtomicBool;
 use std::time::Instant;
 
 fn run_to_end<S: Search>(s: &S, limit: Option<usize>) -> Vec<String> {
-    let batch = std::env::var("BATCH").ok().and_then(|b| b.parse().ok()).unwrap_or(64);
+    let batch = std::env::var("BATCH")
+        .ok()
+        .and_then(|b| b.parse().ok())
+        .unwrap_or(64);
     let stop = AtomicBool::new(false);
-    let hooks = Hooks { progress: &|d, t| eprint!("\r{d}/{t} units  "), checkpoint: &mut |_| {}, stop: &stop };
-    run(s, RunConfig { limit, batch, ..RunConfig::default() }, None, hooks).unwrap().results
+    let hooks = Hooks {
+        progress: &|d, t| eprint!("\r{d}/{t} units  "),
+        checkpoint: &mut |_| {},
+        stop: &stop,
+    };
+    run(
+        s,
+        RunConfig {
+            limit,
+            batch,
+            ..RunConfig::default()
+        },
+        None,
+        hooks,
+    )
+    .unwrap()
+    .results
 }
 
 fn main() {
@@ -17,12 +37,39 @@ fn main() {
     let limit: Option<usize> = args.get(3).and_then(|x| x.parse().ok()).filter(|&l| l > 0);
     let t = Instant::now();
     let out = match args[1].as_str() {
-        "williamson" => run_to_end(&williamson::WilliamsonSearch::new(p, williamson::Mode::Solutions, true), limit),
-        "williamson-classes" => run_to_end(&williamson::WilliamsonSearch::new(p, williamson::Mode::Classes, true), limit),
-        "golay" => run_to_end(&aperiodic::AperiodicSearch::new(aperiodic::Family::Golay(p), aperiodic::Mode::Solutions), limit),
-        "base" => run_to_end(&aperiodic::AperiodicSearch::new(aperiodic::Family::Base(p), aperiodic::Mode::Solutions), limit),
-        "turyn" => run_to_end(&aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(p), aperiodic::Mode::Solutions), limit),
-        "turyn-classes" => run_to_end(&aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(p), aperiodic::Mode::Classes), limit),
+        "williamson" => run_to_end(
+            &williamson::WilliamsonSearch::new(p, williamson::Mode::Solutions, true),
+            limit,
+        ),
+        "williamson-classes" => run_to_end(
+            &williamson::WilliamsonSearch::new(p, williamson::Mode::Classes, true),
+            limit,
+        ),
+        "golay" => run_to_end(
+            &aperiodic::AperiodicSearch::new(
+                aperiodic::Family::Golay(p),
+                aperiodic::Mode::Solutions,
+            ),
+            limit,
+        ),
+        "base" => run_to_end(
+            &aperiodic::AperiodicSearch::new(
+                aperiodic::Family::Base(p),
+                aperiodic::Mode::Solutions,
+            ),
+            limit,
+        ),
+        "turyn" => run_to_end(
+            &aperiodic::AperiodicSearch::new(
+                aperiodic::Family::Turyn(p),
+                aperiodic::Mode::Solutions,
+            ),
+            limit,
+        ),
+        "turyn-classes" => run_to_end(
+            &aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(p), aperiodic::Mode::Classes),
+            limit,
+        ),
         "gs" => run_to_end(&goethals_seidel::GsSearch::new(p), limit),
         k => panic!("unknown search {k}"),
     };
@@ -33,5 +80,10 @@ fn main() {
     for l in &out {
         println!("{l} | found by `cargo run --release -p hadamard-core --example search -- {} {p}{}` ({how}); 2026-12-02", args[1], limit.map(|l| format!(" {l}")).unwrap_or_default());
     }
-    eprintln!("{} {p}: {} results in {:.2?}", args[1], out.len(), t.elapsed());
+    eprintln!(
+        "{} {p}: {} results in {:.2?}",
+        args[1],
+        out.len(),
+        t.elapsed()
+    );
 }

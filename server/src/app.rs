@@ -144,7 +144,11 @@ pub async fn run(config: Config) -> Result<(), String> {
     use std::io::Write;
     let _ = std::io::stdout().flush();
     tracing::info!(%local, "listening");
-    axum::serve(listener, router(state)).with_graceful_shutdown(shutdown_signal()).await.map_err(|e| format!("server error: {e}"))?;
+    axum::serve(listener, router(state.clone())).with_graceful_shutdown(shutdown_signal()).await.map_err(|e| format!("server error: {e}"))?;
+    let checkpointed = tokio::task::spawn_blocking(move || state.catalogue.store.write(crate::store::checkpoint)).await;
+    if let Ok(Err(e)) = checkpointed {
+        tracing::warn!(error = %e, "final checkpoint failed; the WAL file stays beside the database");
+    }
     tracing::info!("stopped");
     Ok(())
 }

@@ -197,6 +197,22 @@ fn upload_lookup_download_and_restart() {
     assert_eq!(a["checked"], 2);
     assert_eq!(a["failed"], 0);
     assert_eq!(a["integrity_check"][0], "ok");
+
+    // A damaged blob (one sign flipped behind the server's back) is found by audit and never
+    // served: the download fails re-verification.
+    {
+        let c = rusqlite::Connection::open(&db).expect("open the database");
+        let mut bits: Vec<u8> = c.query_row("SELECT bits FROM matrices WHERE id = ?1", [&id], |r| r.get(0)).expect("the blob");
+        bits[8] ^= 1;
+        c.execute("UPDATE matrices SET bits = ?1 WHERE id = ?2", rusqlite::params![bits, id]).expect("damage it");
+    }
+    let out = hadamard().args(["audit", "--db"]).arg(&db).output().expect("run audit");
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stdout).contains(&format!("FAILED {id}")));
+    let s = Server::start(&db, &[]);
+    let r = s.get(&format!("/api/matrices/{id}/download?format=pm"));
+    assert_eq!(r.status, 500);
+    assert!(r.json()["error"].as_str().is_some_and(|e| e.contains("re-verification")));
 }
 
 #[test]
@@ -219,7 +235,7 @@ fn refusals_400_413_422() {
     let mut npy = b"\x93NUMPY\x01\x00".to_vec();
     let header = "{'descr': '|i1', 'fortran_order': False, 'shape': (40000, 40000), }";
     let mut h = header.to_owned();
-    while (10 + h.len() + 1) % 64 != 0 {
+    while !(10 + h.len() + 1).is_multiple_of(64) {
         h.push(' ');
     }
     h.push('\n');
@@ -281,7 +297,8 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
     assert_eq!(e["built_now"], true);
     let id = e["id"].as_str().expect("an id").to_owned();
     assert_eq!(e["url"], format!("/m/{id}"));
-    assert!(e["recipe"]["method"].is_string());
+    assert!(e["recipe"]["tree"]["method"].is_string());
+    assert_eq!(e["recipe"]["id"], id.as_str(), "the recipe pins the id it replays to");
     // The id is the SHA-256 of the pm download.
     let pm = s.get(&format!("/api/matrices/{id}/download?format=pm")).text();
     assert_eq!(sha256_of(&pm), id);

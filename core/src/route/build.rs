@@ -7,6 +7,9 @@
 //! replaying it needs nothing else and gives the identical matrix.
 
 use super::{order_info, Method, Route, Status, Step};
+use crate::construct::sequences::{
+    from_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
+};
 use crate::construct::{self, ConstructError};
 use crate::field::MAX_Q;
 use crate::verify::Verified;
@@ -32,9 +35,31 @@ pub(crate) fn implemented(method: Method, params: &BTreeMap<String, Value>) -> b
             .is_some_and(|q| q <= MAX_Q)
     };
     match method {
-        Method::Sylvester | Method::Kronecker | Method::Seed => true,
-        Method::PaleyOne | Method::PaleyTwo => q_ok(),
-        _ => false,
+        Method::Sylvester
+        | Method::Kronecker
+        | Method::Williamson
+        | Method::GoethalsSeidel
+        | Method::TSequences
+        | Method::CooperWallis
+        | Method::SkewDoubling
+        | Method::GolayToT
+        | Method::BaseToT
+        | Method::TurynToBase
+        | Method::GolayProduct
+        | Method::GolayDoubling => true,
+        // A seed leaf is buildable when it carries its sequences (the planner always writes them).
+        Method::Seed => params.get("kind").and_then(Value::as_str).is_some(),
+        Method::PaleyOne | Method::PaleyTwo | Method::ConferenceProduct => q_ok(),
+        Method::TwinPrimePower => params
+            .get("q")
+            .and_then(Value::as_u64)
+            .is_some_and(|q| q + 2 <= MAX_Q),
+        // Turyn's family works in GF(q²).
+        Method::TurynWilliamson => params
+            .get("q")
+            .and_then(Value::as_u64)
+            .is_some_and(|q| q.checked_mul(q).is_some_and(|qq| qq <= MAX_Q)),
+        Method::Miyamoto | Method::Yamada | Method::Literature | Method::Published => false,
     }
 }
 
@@ -172,18 +197,170 @@ fn param(s: &Step, key: &str) -> Result<u64, BuildError> {
     })
 }
 
+fn bad(s: &Step, why: impl fmt::Display) -> BuildError {
+    BuildError::BadRecipe(format!("{:?} of order {}: {why}", s.method, s.order))
+}
+
+/// What a node yields: a verified matrix, or one of the sequence families.
+enum Built {
+    Matrix(Verified),
+    Williamson(Williamson),
+    TSeq(TSequences),
+    Golay(GolayPair),
+    Base(BaseSequences),
+    Turyn(TurynType),
+    Gs(GsQuadruple),
+}
+
+impl Built {
+    /// The index the tree records in `order` for this node (see [`Step`]).
+    fn index(&self) -> usize {
+        match self {
+            Built::Matrix(v) => v.order(),
+            Built::Williamson(w) => w.m(),
+            Built::TSeq(t) => t.len(),
+            Built::Golay(g) => g.len(),
+            Built::Base(b) => b.a.len(),
+            Built::Turyn(t) => t.n(),
+            Built::Gs(g) => g.v(),
+        }
+    }
+
+    fn what(&self) -> &'static str {
+        match self {
+            Built::Matrix(_) => "a Hadamard matrix",
+            Built::Williamson(_) => "Williamson matrices",
+            Built::TSeq(_) => "T-sequences",
+            Built::Golay(_) => "a Golay pair",
+            Built::Base(_) => "base sequences",
+            Built::Turyn(_) => "Turyn-type sequences",
+            Built::Gs(_) => "a Goethals–Seidel quadruple",
+        }
+    }
+}
+
 fn build_step(s: &Step) -> Result<Verified, BuildError> {
+    match build_node(s)? {
+        Built::Matrix(v) => Ok(v),
+        other => Err(bad(
+            s,
+            format!("the route yields {}, not a matrix", other.what()),
+        )),
+    }
+}
+
+/// The node's children, exactly `N` of them.
+fn children<const N: usize>(s: &Step) -> Result<[Built; N], BuildError> {
+    if s.children.len() != N {
+        return Err(bad(
+            s,
+            format!("needs {N} ingredient(s), found {}", s.children.len()),
+        ));
+    }
+    let built = s
+        .children
+        .iter()
+        .map(build_node)
+        .collect::<Result<Vec<_>, _>>()?;
+    Ok(built
+        .try_into()
+        .unwrap_or_else(|_| unreachable!("length checked above")))
+}
+
+/// A sequence parameter of a seed leaf, read back from its `+`/`-`/`0` text.
+fn seq(s: &Step, key: &str) -> Result<Vec<i8>, BuildError> {
+    let text = s
+        .params
+        .get(key)
+        .and_then(Value::as_str)
+        .ok_or_else(|| bad(s, format!("a seed leaf needs the sequence `{key}`")))?;
+    from_text(text).map_err(|i| bad(s, format!("`{key}`: bad character at position {}", i + 1)))
+}
+
+/// A seed leaf: the sequences it carries, checked against their defining identity.
+fn seed_leaf(s: &Step) -> Result<Built, BuildError> {
+    let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
+    let (b, valid) = match kind {
+        "williamson" => {
+            let w = Williamson {
+                a: seq(s, "a")?,
+                b: seq(s, "b")?,
+                c: seq(s, "c")?,
+                d: seq(s, "d")?,
+            };
+            let ok = w.is_valid();
+            (Built::Williamson(w), ok)
+        }
+        "gs" => {
+            let g = GsQuadruple {
+                a: [seq(s, "a")?, seq(s, "b")?, seq(s, "c")?, seq(s, "d")?],
+            };
+            let ok = g.is_valid();
+            (Built::Gs(g), ok)
+        }
+        "tseq" => {
+            let t = TSequences {
+                t: [seq(s, "t1")?, seq(s, "t2")?, seq(s, "t3")?, seq(s, "t4")?],
+            };
+            let ok = t.is_valid();
+            (Built::TSeq(t), ok)
+        }
+        "base" => {
+            let x = BaseSequences {
+                a: seq(s, "a")?,
+                b: seq(s, "b")?,
+                c: seq(s, "c")?,
+                d: seq(s, "d")?,
+            };
+            let ok = x.is_valid();
+            (Built::Base(x), ok)
+        }
+        "turyn" => {
+            let x = TurynType {
+                a: seq(s, "a")?,
+                b: seq(s, "b")?,
+                c: seq(s, "c")?,
+                d: seq(s, "d")?,
+            };
+            let ok = x.is_valid();
+            (Built::Turyn(x), ok)
+        }
+        "golay" => {
+            let g = GolayPair {
+                a: seq(s, "a")?,
+                b: seq(s, "b")?,
+            };
+            let ok = g.is_valid();
+            (Built::Golay(g), ok)
+        }
+        other => return Err(bad(s, format!("unknown seed kind `{other}`"))),
+    };
+    if !valid {
+        return Err(BuildError::Construct {
+            method: s.method,
+            order: s.order,
+            error: ConstructError::Hypothesis(format!(
+                "the seed's {} fail their defining identity",
+                b.what()
+            )),
+        });
+    }
+    Ok(b)
+}
+
+fn build_node(s: &Step) -> Result<Built, BuildError> {
     if s.order > MAX_BUILD_ORDER {
         return Err(BuildError::TooLarge { order: s.order });
     }
     let constructed = |r: Result<Verified, ConstructError>| {
-        r.map_err(|error| BuildError::Construct {
+        r.map(Built::Matrix).map_err(|error| BuildError::Construct {
             method: s.method,
             order: s.order,
             error,
         })
     };
-    let v = match s.method {
+    let wrong = |b: &Built| bad(s, format!("cannot use {} here", b.what()));
+    let built = match s.method {
         Method::Sylvester => {
             let k = u32::try_from(param(s, "k")?)
                 .map_err(|_| BuildError::BadRecipe("k too large".into()))?;
@@ -191,42 +368,122 @@ fn build_step(s: &Step) -> Result<Verified, BuildError> {
         }
         Method::PaleyOne => constructed(construct::paley::paley_one(param(s, "q")?))?,
         Method::PaleyTwo => constructed(construct::paley::paley_two(param(s, "q")?))?,
-        Method::Kronecker => {
-            let [a, b] = &s.children[..] else {
-                return Err(BuildError::BadRecipe(format!(
-                    "a Kronecker product needs two factors, found {}",
-                    s.children.len()
-                )));
-            };
-            let (a, b) = (build_step(a)?, build_step(b)?);
-            constructed(construct::kronecker::kronecker(&a, &b))?
+        Method::TwinPrimePower => {
+            constructed(construct::twin_prime::twin_prime_power(param(s, "q")?))?
         }
-        m => {
+        Method::Kronecker => match children::<2>(s)? {
+            [Built::Matrix(a), Built::Matrix(b)] => {
+                constructed(construct::kronecker::kronecker(&a, &b))?
+            }
+            [x, y] => {
+                return Err(wrong(if matches!(x, Built::Matrix(_)) {
+                    &y
+                } else {
+                    &x
+                }))
+            }
+        },
+        Method::ConferenceProduct => match children::<1>(s)? {
+            [Built::Matrix(h)] => constructed(
+                construct::paley::paley_conference(param(s, "q")?)
+                    .and_then(|c| construct::conference::conference_product(&c, &h)),
+            )?,
+            [x] => return Err(wrong(&x)),
+        },
+        Method::SkewDoubling => match children::<1>(s)? {
+            [Built::Matrix(h)] => constructed(construct::skew::skew_double(&h))?,
+            [x] => return Err(wrong(&x)),
+        },
+        Method::Williamson => match children::<1>(s)? {
+            [Built::Williamson(w)] => constructed(construct::williamson::williamson_array(&w))?,
+            [x] => return Err(wrong(&x)),
+        },
+        Method::GoethalsSeidel => match children::<1>(s)? {
+            [Built::Gs(g)] => constructed(construct::goethals_seidel::goethals_seidel(&g))?,
+            [x] => return Err(wrong(&x)),
+        },
+        Method::TSequences => match children::<1>(s)? {
+            [Built::TSeq(t)] => constructed(construct::t_sequences::t_sequences(&t))?,
+            [x] => return Err(wrong(&x)),
+        },
+        Method::CooperWallis => match children::<2>(s)? {
+            [Built::TSeq(t), Built::Williamson(w)] => {
+                constructed(construct::cooper_wallis::cooper_wallis(&t, &w))?
+            }
+            [x, y] => {
+                return Err(wrong(if matches!(x, Built::TSeq(_)) { &y } else { &x }));
+            }
+        },
+        Method::Seed => seed_leaf(s)?,
+        Method::TurynWilliamson => Built::Williamson(
+            construct::turyn_williamson::turyn_williamson(param(s, "q")?).map_err(|error| {
+                BuildError::Construct {
+                    method: s.method,
+                    order: s.order,
+                    error,
+                }
+            })?,
+        ),
+        Method::GolayDoubling => match children::<1>(s)? {
+            [Built::Golay(g)] => Built::Golay(construct::t_sequences::golay_doubling(&g)),
+            [x] => return Err(wrong(&x)),
+        },
+        Method::GolayProduct => match children::<2>(s)? {
+            [Built::Golay(a), Built::Golay(b)] => {
+                Built::Golay(construct::t_sequences::golay_product(&a, &b))
+            }
+            [x, y] => return Err(wrong(if matches!(x, Built::Golay(_)) { &y } else { &x })),
+        },
+        Method::GolayToT => match children::<1>(s)? {
+            [Built::Golay(g)] => {
+                let part = match s.params.get("part").and_then(Value::as_str) {
+                    Some("g") => 0,
+                    Some("g+1") => 1,
+                    Some("2g+1") => 2,
+                    other => {
+                        return Err(bad(
+                            s,
+                            format!("`part` must be g, g+1 or 2g+1, found {other:?}"),
+                        ))
+                    }
+                };
+                let mut ts = construct::t_sequences::golay_to_t(&g);
+                Built::TSeq(ts.swap_remove(part))
+            }
+            [x] => return Err(wrong(&x)),
+        },
+        Method::BaseToT => match children::<1>(s)? {
+            [Built::Base(b)] => Built::TSeq(construct::t_sequences::base_to_t(&b)),
+            [x] => return Err(wrong(&x)),
+        },
+        Method::TurynToBase => match children::<1>(s)? {
+            [Built::Turyn(t)] => Built::Base(construct::t_sequences::turyn_to_base(&t)),
+            [x] => return Err(wrong(&x)),
+        },
+        m @ (Method::Literature | Method::Published | Method::Miyamoto | Method::Yamada) => {
             let reason = match m {
                 Method::Literature | Method::Published => {
                     "it rests on a published result whose data this program does not hold"
-                        .to_string()
                 }
-                Method::Miyamoto | Method::Yamada => {
-                    "this construction is listed from the literature and not implemented"
-                        .to_string()
-                }
-                _ => "this construction is not implemented yet".to_string(),
+                _ => "this construction is listed from the literature and not implemented",
             };
             return Err(BuildError::NotBuildable {
                 method: m,
                 order: s.order,
-                reason,
+                reason: reason.to_string(),
             });
         }
     };
-    if v.order() as u64 != s.order {
-        return Err(BuildError::BadRecipe(format!(
-            "{:?} gave order {} where the tree says {}",
-            s.method,
-            v.order(),
-            s.order
-        )));
+    if built.index() as u64 != s.order {
+        return Err(bad(
+            s,
+            format!(
+                "gave {} of index {} where the tree says {}",
+                built.what(),
+                built.index(),
+                s.order
+            ),
+        ));
     }
-    Ok(v)
+    Ok(built)
 }

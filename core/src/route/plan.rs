@@ -122,6 +122,33 @@ fn leak_key(name: &str) -> &'static str {
     }
 }
 
+/// The published source for Williamson matrices of odd order m, when the literature has them.
+fn williamson_paper(m: u64) -> Option<&'static str> {
+    match m {
+        23 => Some(refs::WILLIAMSON_23),
+        _ if WILLIAMSON_KNOWN.contains(&m) => Some(refs::WILLIAMSON_KNOWN),
+        _ => None,
+    }
+}
+
+/// The published source for Turyn-type sequences TT(n), when the literature has them.
+fn turyn_paper(n: u64) -> Option<&'static str> {
+    match n {
+        36 => Some(refs::TT36),
+        _ if n.is_multiple_of(2) && n <= 38 => Some(refs::TT_KNOWN),
+        _ => None,
+    }
+}
+
+/// A seed leaf's reference: where our data came from, and, when a paper first found data of
+/// this kind, that paper too (our search found its own, but the order's history is the paper's).
+fn seed_reference(provenance: &str, paper: Option<&str>) -> String {
+    match paper {
+        Some(p) => format!("{provenance}; first published: {p}"),
+        None => provenance.to_string(),
+    }
+}
+
 /// Makes a node; `buildable` follows from the method and the children.
 pub(crate) fn step(
     method: Method,
@@ -704,7 +731,7 @@ impl Planner {
                     e,
                     &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
                 ),
-                &e.provenance,
+                &seed_reference(&e.provenance, williamson_paper(m)),
                 vec![],
             ));
         }
@@ -722,12 +749,7 @@ impl Planner {
         if turyn.as_ref().is_some_and(|t| t.buildable) {
             return turyn;
         }
-        if WILLIAMSON_KNOWN.contains(&m) {
-            let reference = if m == 23 {
-                refs::WILLIAMSON_23
-            } else {
-                refs::WILLIAMSON_KNOWN
-            };
+        if let Some(reference) = williamson_paper(m) {
             return Some(step(
                 Method::Published,
                 m,
@@ -788,7 +810,7 @@ impl Planner {
                         e,
                         &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
                     ),
-                    &e.provenance,
+                    &seed_reference(&e.provenance, turyn_paper(n)),
                     vec![],
                 ))
             } else if n.is_multiple_of(2) && n <= 38 {
@@ -796,7 +818,7 @@ impl Planner {
                     Method::Published,
                     n,
                     vec![("kind", json!("turyn"))],
-                    if n == 36 { refs::TT36 } else { refs::TT_KNOWN },
+                    turyn_paper(n).unwrap_or(refs::TT_KNOWN),
                     vec![],
                 ))
             } else {

@@ -68,7 +68,10 @@ impl Family {
     /// (sequence, position, value) fixed by the normalisations.
     fn pins(&self) -> Vec<(usize, usize, i8)> {
         let lens = self.lengths();
-        let mut p: Vec<(usize, usize, i8)> = (0..lens.len()).filter(|&j| lens[j] > 0).map(|j| (j, 0, 1)).collect();
+        let mut p: Vec<(usize, usize, i8)> = (0..lens.len())
+            .filter(|&j| lens[j] > 0)
+            .map(|j| (j, 0, 1))
+            .collect();
         if let Family::Turyn(n) = *self {
             if n % 2 == 0 && n >= 2 {
                 p.push((0, n - 1, 1));
@@ -82,22 +85,56 @@ impl Family {
 pub fn line(family: Family, x: &[Vec<i8>]) -> String {
     match family {
         Family::Golay(g) => format!("golay g={g} a={} b={}", to_text(&x[0]), to_text(&x[1])),
-        Family::Base(n) => format!("base n={n} p=1 a={} b={} c={} d={}", to_text(&x[0]), to_text(&x[1]), to_text(&x[2]), to_text(&x[3])),
-        Family::Turyn(n) => format!("turyn n={n} a={} b={} c={} d={}", to_text(&x[0]), to_text(&x[1]), to_text(&x[2]), to_text(&x[3])),
+        Family::Base(n) => format!(
+            "base n={n} p=1 a={} b={} c={} d={}",
+            to_text(&x[0]),
+            to_text(&x[1]),
+            to_text(&x[2]),
+            to_text(&x[3])
+        ),
+        Family::Turyn(n) => format!(
+            "turyn n={n} a={} b={} c={} d={}",
+            to_text(&x[0]),
+            to_text(&x[1]),
+            to_text(&x[2]),
+            to_text(&x[3])
+        ),
     }
 }
 
 fn is_solution(family: Family, x: &[Vec<i8>]) -> bool {
     match family {
-        Family::Golay(_) => GolayPair { a: x[0].clone(), b: x[1].clone() }.is_valid(),
-        Family::Base(_) => BaseSequences { a: x[0].clone(), b: x[1].clone(), c: x[2].clone(), d: x[3].clone() }.is_valid(),
-        Family::Turyn(_) => TurynType { a: x[0].clone(), b: x[1].clone(), c: x[2].clone(), d: x[3].clone() }.is_valid(),
+        Family::Golay(_) => GolayPair {
+            a: x[0].clone(),
+            b: x[1].clone(),
+        }
+        .is_valid(),
+        Family::Base(_) => BaseSequences {
+            a: x[0].clone(),
+            b: x[1].clone(),
+            c: x[2].clone(),
+            d: x[3].clone(),
+        }
+        .is_valid(),
+        Family::Turyn(_) => TurynType {
+            a: x[0].clone(),
+            b: x[1].clone(),
+            c: x[2].clone(),
+            d: x[3].clone(),
+        }
+        .is_valid(),
     }
 }
 
 /// The class representative of a TT(n) under constructions.md §4's equivalence.
 pub fn turyn_canonical(x: &[Vec<i8>]) -> Vec<Vec<i8>> {
-    let positive = |v: Vec<i8>| if v.first() == Some(&-1) { v.iter().map(|e| -e).collect() } else { v };
+    let positive = |v: Vec<i8>| {
+        if v.first() == Some(&-1) {
+            v.iter().map(|e| -e).collect()
+        } else {
+            v
+        }
+    };
     let mut best: Option<Vec<Vec<i8>>> = None;
     for alt in 0..2 {
         for swap in 0..2 {
@@ -167,7 +204,14 @@ impl AperiodicSearch {
     pub fn new(family: Family, mode: Mode) -> Self {
         let lens = family.lengths();
         let longest = *lens.iter().max().unwrap_or(&0);
-        let mut s = AperiodicSearch { family, mode, weights: family.weights(), lens, longest, split: 0 };
+        let mut s = AperiodicSearch {
+            family,
+            mode,
+            weights: family.weights(),
+            lens,
+            longest,
+            split: 0,
+        };
         // Cut where there are a few thousand partial assignments, so both cores stay busy and
         // progress moves; a cut after the last level (small cases) is one unit per solution.
         let mut level_nodes = vec![s.start()];
@@ -194,7 +238,13 @@ impl AperiodicSearch {
 
     /// The choices for sequence j at level `level` (written to `out`, returning how many), or
     /// `Err(value)` when the sequence has nothing new there and contributes `value` as it is.
-    fn choices(&self, x: &[Vec<i8>], j: usize, level: usize, out: &mut [Choice; 4]) -> Result<usize, i64> {
+    fn choices(
+        &self,
+        x: &[Vec<i8>],
+        j: usize,
+        level: usize,
+        out: &mut [Choice; 4],
+    ) -> Result<usize, i64> {
         let l = self.lens[j];
         let s = self.longest - level;
         if s >= l {
@@ -202,7 +252,10 @@ impl AperiodicSearch {
         }
         let d = l - s;
         let y = &x[j];
-        let known: i64 = (0..d).filter(|&i| y[i] != 0 && y[i + s] != 0).map(|i| y[i] as i64 * y[i + s] as i64).sum();
+        let known: i64 = (0..d)
+            .filter(|&i| y[i] != 0 && y[i + s] != 0)
+            .map(|i| y[i] as i64 * y[i + s] as i64)
+            .sum();
         let (p, q) = (d - 1, l - d);
         if d > l.div_ceil(2) || (y[p] != 0 && y[q] != 0) {
             return Err(known);
@@ -238,7 +291,11 @@ impl AperiodicSearch {
                 if p != 0 && (y[p] == 0 || y[p + s] == 0) {
                     extra += get(p) * get(p + s);
                 }
-                out[n] = Choice { value: known + extra, p: vp, q: vq };
+                out[n] = Choice {
+                    value: known + extra,
+                    p: vp,
+                    q: vq,
+                };
                 n += 1;
             }
         }
@@ -246,11 +303,23 @@ impl AperiodicSearch {
     }
 
     /// Extends `x` from `level` to `stop` (exclusive), calling `found` at each node of level `stop`.
-    fn expand(&self, mut x: Vec<Vec<i8>>, level: usize, stop: usize, found: &mut dyn FnMut(&[Vec<i8>])) {
+    fn expand(
+        &self,
+        mut x: Vec<Vec<i8>>,
+        level: usize,
+        stop: usize,
+        found: &mut dyn FnMut(&[Vec<i8>]),
+    ) {
         self.descend(&mut x, level, stop, found);
     }
 
-    fn descend(&self, x: &mut Vec<Vec<i8>>, level: usize, stop: usize, found: &mut dyn FnMut(&[Vec<i8>])) {
+    fn descend(
+        &self,
+        x: &mut Vec<Vec<i8>>,
+        level: usize,
+        stop: usize,
+        found: &mut dyn FnMut(&[Vec<i8>]),
+    ) {
         if level >= stop || level >= self.longest {
             found(x);
             return;
@@ -260,7 +329,11 @@ impl AperiodicSearch {
         }
         let s = self.longest - level;
         let mut fixed = 0i64;
-        let empty = Choice { value: 0, p: 0, q: 0 };
+        let empty = Choice {
+            value: 0,
+            p: 0,
+            q: 0,
+        };
         let mut lists = [[empty; 4]; 4];
         let mut counts = [0usize; 4];
         let mut which = [0usize; 4];
@@ -279,13 +352,36 @@ impl AperiodicSearch {
         let mut max_rest = [0i64; 5];
         for i in (0..k).rev() {
             let w = self.weights[which[i]];
-            max_rest[i] = max_rest[i + 1] + lists[i][..counts[i]].iter().map(|c| (w * c.value).abs()).max().unwrap_or(0);
+            max_rest[i] = max_rest[i + 1]
+                + lists[i][..counts[i]]
+                    .iter()
+                    .map(|c| (w * c.value).abs())
+                    .max()
+                    .unwrap_or(0);
         }
-        let level_choices = Level { lists: &lists, counts: &counts, which: &which, k, max_rest: &max_rest, s };
+        let level_choices = Level {
+            lists: &lists,
+            counts: &counts,
+            which: &which,
+            k,
+            max_rest: &max_rest,
+            s,
+        };
         self.product(x, &level_choices, 0, fixed, level, stop, found);
     }
 
-    fn product(&self, x: &mut Vec<Vec<i8>>, lv: &Level<'_>, i: usize, sum: i64, level: usize, stop: usize, found: &mut dyn FnMut(&[Vec<i8>])) {
+    // The recursion's state is these few values; a struct for them would only rename them.
+    #[allow(clippy::too_many_arguments)]
+    fn product(
+        &self,
+        x: &mut Vec<Vec<i8>>,
+        lv: &Level<'_>,
+        i: usize,
+        sum: i64,
+        level: usize,
+        stop: usize,
+        found: &mut dyn FnMut(&[Vec<i8>]),
+    ) {
         if sum.abs() > lv.max_rest[i] {
             return;
         }
@@ -303,7 +399,15 @@ impl AperiodicSearch {
         for c in &lv.lists[i][..lv.counts[i]] {
             x[j][p] = c.p;
             x[j][q] = c.q;
-            self.product(x, lv, i + 1, sum + self.weights[j] * c.value, level, stop, found);
+            self.product(
+                x,
+                lv,
+                i + 1,
+                sum + self.weights[j] * c.value,
+                level,
+                stop,
+                found,
+            );
         }
         x[j][p] = old_p;
         x[j][q] = old_q;
@@ -314,7 +418,12 @@ impl AperiodicSearch {
     /// unset each sum lies in an interval; if even the smallest squares overshoot, no
     /// completion exists. It prunes the deep levels, where few entries are left.
     fn sums_can_fit(&self, x: &[Vec<i8>]) -> bool {
-        let total: i64 = self.weights.iter().zip(&self.lens).map(|(w, &l)| w * l as i64).sum();
+        let total: i64 = self
+            .weights
+            .iter()
+            .zip(&self.lens)
+            .map(|(w, &l)| w * l as i64)
+            .sum();
         for alternating in [false, true] {
             let mut least = 0i64;
             for (j, y) in x.iter().enumerate() {
@@ -329,7 +438,11 @@ impl AperiodicSearch {
                     }
                 }
                 // The final sum is in [sum − free, sum + free], of the parity of the length.
-                let low = if sum.abs() <= free { (self.lens[j] % 2) as i64 } else { sum.abs() - free };
+                let low = if sum.abs() <= free {
+                    (self.lens[j] % 2) as i64
+                } else {
+                    sum.abs() - free
+                };
                 least += self.weights[j] * low * low;
             }
             if least > total {
@@ -368,13 +481,17 @@ impl Search for AperiodicSearch {
 
     fn units(&self) -> Vec<Unit> {
         let mut out = Vec::new();
-        self.expand(self.start(), 1, self.split, &mut |y| out.push(Unit { x: y.to_vec() }));
+        self.expand(self.start(), 1, self.split, &mut |y| {
+            out.push(Unit { x: y.to_vec() })
+        });
         out
     }
 
     fn run_unit(&self, u: &Unit) -> Vec<String> {
         let mut out = Vec::new();
-        self.expand(u.x.clone(), self.split, usize::MAX, &mut |y| out.extend(self.report(y)));
+        self.expand(u.x.clone(), self.split, usize::MAX, &mut |y| {
+            out.extend(self.report(y))
+        });
         out.sort();
         out.dedup();
         out
@@ -441,7 +558,10 @@ mod tests {
     fn golay_pairs_of_length_10_exist_and_3_do_not() {
         // Golay pairs exist for lengths 2^a·10^b·26^c (constructions.md §2 #11, [read]) and not
         // for length 3: a length-g pair needs 2g to be a sum of two squares [derived: row sums].
-        let ten = run_to_end(&AperiodicSearch::new(Family::Golay(10), Mode::Solutions), Some(1));
+        let ten = run_to_end(
+            &AperiodicSearch::new(Family::Golay(10), Mode::Solutions),
+            Some(1),
+        );
         assert!(!ten.is_empty());
         assert_eq!(count(Family::Golay(3), Mode::Solutions), 0);
         assert!(count(Family::Golay(8), Mode::Solutions) > 0);
@@ -450,15 +570,24 @@ mod tests {
     #[test]
     fn base_sequences_small() {
         for n in 1..=6 {
-            let found = run_to_end(&AperiodicSearch::new(Family::Base(n), Mode::Solutions), Some(1));
+            let found = run_to_end(
+                &AperiodicSearch::new(Family::Base(n), Mode::Solutions),
+                Some(1),
+            );
             assert!(!found.is_empty(), "BS({}, {n})", n + 1);
         }
     }
 
     #[test]
     fn products_and_doubling_of_found_pairs() {
-        let two = GolayPair { a: vec![1, 1], b: vec![1, -1] };
-        let ten = run_to_end(&AperiodicSearch::new(Family::Golay(10), Mode::Solutions), Some(1));
+        let two = GolayPair {
+            a: vec![1, 1],
+            b: vec![1, -1],
+        };
+        let ten = run_to_end(
+            &AperiodicSearch::new(Family::Golay(10), Mode::Solutions),
+            Some(1),
+        );
         let mut cat = crate::seed::SeedCatalogue::default();
         cat.add_text("found", &format!("{} | test\n", ten[0]));
         let ten = cat.golay[0].data.clone();
@@ -474,11 +603,32 @@ mod tests {
         use std::sync::atomic::AtomicBool;
         let s = AperiodicSearch::new(Family::Turyn(8), Mode::Solutions);
         let whole = run_to_end(&s, None);
-        assert_eq!(whole, run_to_end(&AperiodicSearch::new(Family::Turyn(8), Mode::Solutions), None));
+        assert_eq!(
+            whole,
+            run_to_end(
+                &AperiodicSearch::new(Family::Turyn(8), Mode::Solutions),
+                None
+            )
+        );
         let stop = AtomicBool::new(false);
         let parts = (0..3).flat_map(|index| {
-            let config = RunConfig { shard: Shard { index, count: 3 }, limit: None, batch: 7 };
-            run(&s, config, None, Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &stop }).unwrap().results
+            let config = RunConfig {
+                shard: Shard { index, count: 3 },
+                limit: None,
+                batch: 7,
+            };
+            run(
+                &s,
+                config,
+                None,
+                Hooks {
+                    progress: &|_, _| {},
+                    checkpoint: &mut |_| {},
+                    stop: &stop,
+                },
+            )
+            .unwrap()
+            .results
         });
         assert_eq!(merge(parts), whole);
     }

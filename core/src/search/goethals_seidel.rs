@@ -45,7 +45,9 @@ pub struct Unit {
 
 fn least_image(v: usize, bits: u64) -> u64 {
     let full = if v == 64 { u64::MAX } else { (1u64 << v) - 1 };
-    let rev = (0..v).filter(|&i| bits >> i & 1 == 1).fold(0u64, |a, i| a | 1 << (v - 1 - i));
+    let rev = (0..v)
+        .filter(|&i| bits >> i & 1 == 1)
+        .fold(0u64, |a, i| a | 1 << (v - 1 - i));
     let mut best = u64::MAX;
     for x in [bits, rev] {
         let mut y = x;
@@ -60,7 +62,9 @@ fn least_image(v: usize, bits: u64) -> u64 {
 fn make_seq(v: usize, bits: u64, cos: &[f64], sin: &[f64]) -> Option<Seq> {
     let half = v / 2;
     let limit = 4.0 * v as f64 + 1e-6;
-    let a: Vec<i32> = (0..v).map(|i| if bits >> i & 1 == 1 { -1 } else { 1 }).collect();
+    let a: Vec<i32> = (0..v)
+        .map(|i| if bits >> i & 1 == 1 { -1 } else { 1 })
+        .collect();
     let mut psd = Vec::with_capacity(half);
     for k in 1..=half {
         let (mut re, mut im) = (0.0, 0.0);
@@ -75,14 +79,20 @@ fn make_seq(v: usize, bits: u64, cos: &[f64], sin: &[f64]) -> Option<Seq> {
         }
         psd.push(p);
     }
-    let paf = (1..=half).map(|s| (0..v).map(|i| a[i] * a[(i + s) % v]).sum()).collect();
+    let paf = (1..=half)
+        .map(|s| (0..v).map(|i| a[i] * a[(i + s) % v]).sum())
+        .collect();
     Some(Seq { bits, paf, psd })
 }
 
 fn sequences_with_sum(v: usize, sum: i64) -> Vec<Seq> {
     let neg = ((v as i64 - sum) / 2) as u32;
-    let cos: Vec<f64> = (0..v).map(|t| (2.0 * std::f64::consts::PI * t as f64 / v as f64).cos()).collect();
-    let sin: Vec<f64> = (0..v).map(|t| (2.0 * std::f64::consts::PI * t as f64 / v as f64).sin()).collect();
+    let cos: Vec<f64> = (0..v)
+        .map(|t| (2.0 * std::f64::consts::PI * t as f64 / v as f64).cos())
+        .collect();
+    let sin: Vec<f64> = (0..v)
+        .map(|t| (2.0 * std::f64::consts::PI * t as f64 / v as f64).sin())
+        .collect();
     let total = 1u64 << v;
     let chunk = 1u64 << v.saturating_sub(10);
     let mut out: Vec<Seq> = (0..total.div_ceil(chunk))
@@ -141,18 +151,30 @@ fn pair_fits(v: usize, x: &Seq, y: &Seq) -> bool {
 }
 
 fn expand(v: usize, bits: u64) -> Vec<i8> {
-    (0..v).map(|i| if bits >> i & 1 == 1 { -1 } else { 1 }).collect()
+    (0..v)
+        .map(|i| if bits >> i & 1 == 1 { -1 } else { 1 })
+        .collect()
 }
 
 /// The seed-catalogue line (without provenance) of a quadruple.
 pub fn line(q: &GsQuadruple) -> String {
-    format!("gs v={} a={} b={} c={} d={}", q.v(), to_text(&q.a[0]), to_text(&q.a[1]), to_text(&q.a[2]), to_text(&q.a[3]))
+    format!(
+        "gs v={} a={} b={} c={} d={}",
+        q.v(),
+        to_text(&q.a[0]),
+        to_text(&q.a[1]),
+        to_text(&q.a[2]),
+        to_text(&q.a[3])
+    )
 }
 
 impl GsSearch {
     /// Prepares the search: decompositions of 4v and their candidate sequences.
     pub fn new(v: usize) -> Self {
-        assert!((1..=40).contains(&v), "Goethals–Seidel search needs 1 ≤ v ≤ 40");
+        assert!(
+            (1..=40).contains(&v),
+            "Goethals–Seidel search needs 1 ≤ v ≤ 40"
+        );
         let mut cache: Vec<(i64, Arc<Vec<Seq>>)> = Vec::new();
         let mut get = |s: i64| -> Arc<Vec<Seq>> {
             if let Some((_, r)) = cache.iter().find(|(t, _)| *t == s) {
@@ -172,7 +194,12 @@ impl GsSearch {
                 let q = [order[1], order[2]];
                 let size = |x: [usize; 2]| rows[x[0]].len() as u128 * rows[x[1]].len() as u128;
                 let (outer, inner) = if size(p) >= size(q) { (p, q) } else { (q, p) };
-                Decomposition { rows, outer, inner, table: OnceLock::new() }
+                Decomposition {
+                    rows,
+                    outer,
+                    inner,
+                    table: OnceLock::new(),
+                }
             })
             .collect();
         GsSearch { v, decompositions }
@@ -189,7 +216,13 @@ impl GsSearch {
                     y.iter()
                         .enumerate()
                         .filter(move |(_, yj)| pair_fits(v, xi, yj))
-                        .map(move |(j, yj)| (key(xi.paf.iter().zip(&yj.paf).map(|(p, q)| -(p + q))), i as u32, j as u32))
+                        .map(move |(j, yj)| {
+                            (
+                                key(xi.paf.iter().zip(&yj.paf).map(|(p, q)| -(p + q))),
+                                i as u32,
+                                j as u32,
+                            )
+                        })
                 })
                 .collect();
             t.par_sort_unstable();
@@ -215,7 +248,11 @@ impl Search for GsSearch {
             let step = n.div_ceil(256).max(1);
             let mut from = 0;
             while from < n {
-                out.push(Unit { decomposition: k, from, to: (from + step).min(n) });
+                out.push(Unit {
+                    decomposition: k,
+                    from,
+                    to: (from + step).min(n),
+                });
                 from += step;
             }
         }
@@ -237,7 +274,9 @@ impl Search for GsSearch {
                 let start = table.partition_point(|e| e.0 < k);
                 for &(_, i, j) in table[start..].iter().take_while(|e| e.0 == k) {
                     let (pi, qj) = (&p[i as usize], &q[j as usize]);
-                    if !(0..xi.paf.len()).all(|s| xi.paf[s] + yj.paf[s] + pi.paf[s] + qj.paf[s] == 0) {
+                    if !(0..xi.paf.len())
+                        .all(|s| xi.paf[s] + yj.paf[s] + pi.paf[s] + qj.paf[s] == 0)
+                    {
                         continue;
                     }
                     let mut picks = [0u64; 4];
@@ -245,7 +284,9 @@ impl Search for GsSearch {
                     picks[d.outer[1]] = yj.bits;
                     picks[d.inner[0]] = pi.bits;
                     picks[d.inner[1]] = qj.bits;
-                    let quad = GsQuadruple { a: picks.map(|b| expand(self.v, b)) };
+                    let quad = GsQuadruple {
+                        a: picks.map(|b| expand(self.v, b)),
+                    };
                     if quad.is_valid() {
                         out.push(line(&quad));
                     }

@@ -65,9 +65,17 @@ impl FromStr for Shard {
     type Err = String;
     /// Reads `i/k` with 0 ≤ i < k.
     fn from_str(s: &str) -> Result<Self, String> {
-        let (i, k) = s.split_once('/').ok_or_else(|| format!("expected i/k, found `{s}`"))?;
-        let index: u64 = i.trim().parse().map_err(|_| format!("bad shard index `{i}`"))?;
-        let count: u64 = k.trim().parse().map_err(|_| format!("bad shard count `{k}`"))?;
+        let (i, k) = s
+            .split_once('/')
+            .ok_or_else(|| format!("expected i/k, found `{s}`"))?;
+        let index: u64 = i
+            .trim()
+            .parse()
+            .map_err(|_| format!("bad shard index `{i}`"))?;
+        let count: u64 = k
+            .trim()
+            .parse()
+            .map_err(|_| format!("bad shard count `{k}`"))?;
         if count == 0 || index >= count {
             return Err(format!("shard {index}/{count}: need 0 ≤ i < k"));
         }
@@ -105,7 +113,11 @@ pub struct RunConfig {
 
 impl Default for RunConfig {
     fn default() -> Self {
-        RunConfig { shard: Shard::WHOLE, limit: None, batch: 64 }
+        RunConfig {
+            shard: Shard::WHOLE,
+            limit: None,
+            batch: 64,
+        }
     }
 }
 
@@ -152,9 +164,19 @@ impl std::error::Error for RunError {}
 
 /// Runs (or resumes, from `resume`) one shard of `search`, and returns its state: finished
 /// unless `hooks.stop` was raised first.
-pub fn run<S: Search>(search: &S, config: RunConfig, resume: Option<Checkpoint>, hooks: Hooks<'_>) -> Result<Checkpoint, RunError> {
+pub fn run<S: Search>(
+    search: &S,
+    config: RunConfig,
+    resume: Option<Checkpoint>,
+    hooks: Hooks<'_>,
+) -> Result<Checkpoint, RunError> {
     let units: Vec<S::Unit> = search.units();
-    let mine: Vec<&S::Unit> = units.iter().enumerate().filter(|(i, _)| config.shard.owns(*i as u64)).map(|(_, u)| u).collect();
+    let mine: Vec<&S::Unit> = units
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| config.shard.owns(*i as u64))
+        .map(|(_, u)| u)
+        .collect();
     let describe = search.describe();
     let mut state = match resume {
         Some(c) => {
@@ -166,7 +188,14 @@ pub fn run<S: Search>(search: &S, config: RunConfig, resume: Option<Checkpoint>,
             }
             c
         }
-        None => Checkpoint { search: describe, shard: config.shard, total: mine.len() as u64, next: 0, results: Vec::new(), finished: false },
+        None => Checkpoint {
+            search: describe,
+            shard: config.shard,
+            total: mine.len() as u64,
+            next: 0,
+            results: Vec::new(),
+            finished: false,
+        },
     };
     let enough = |st: &Checkpoint| config.limit.is_some_and(|l| st.results.len() >= l);
     state.finished = state.finished || state.next >= state.total || enough(&state);
@@ -178,7 +207,10 @@ pub fn run<S: Search>(search: &S, config: RunConfig, resume: Option<Checkpoint>,
         }
         let start = state.next as usize;
         let end = (start + batch).min(mine.len());
-        let found: Vec<String> = mine[start..end].par_iter().flat_map_iter(|u| search.run_unit(u)).collect();
+        let found: Vec<String> = mine[start..end]
+            .par_iter()
+            .flat_map_iter(|u| search.run_unit(u))
+            .collect();
         let mut all: BTreeSet<String> = std::mem::take(&mut state.results).into_iter().collect();
         all.extend(found);
         state.results = all.into_iter().collect();
@@ -193,16 +225,29 @@ pub fn run<S: Search>(search: &S, config: RunConfig, resume: Option<Checkpoint>,
 /// Runs the whole search on this thread pool with no hooks, and returns its sorted results.
 pub fn run_to_end<S: Search>(search: &S, limit: Option<usize>) -> Vec<String> {
     let stop = AtomicBool::new(false);
-    let hooks = Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &stop };
-    let config = RunConfig { limit, ..RunConfig::default() };
-    run(search, config, None, hooks).expect("a fresh run has no checkpoint to mismatch").results
+    let hooks = Hooks {
+        progress: &|_, _| {},
+        checkpoint: &mut |_| {},
+        stop: &stop,
+    };
+    let config = RunConfig {
+        limit,
+        ..RunConfig::default()
+    };
+    run(search, config, None, hooks)
+        .expect("a fresh run has no checkpoint to mismatch")
+        .results
 }
 
 /// Merges the results of several shards (or several runs): the sorted, de-duplicated union.
 /// For searches that report classes, each result is already a canonical representative, so
 /// the union is the list of classes.
 pub fn merge<I: IntoIterator<Item = String>>(parts: I) -> Vec<String> {
-    parts.into_iter().collect::<BTreeSet<_>>().into_iter().collect()
+    parts
+        .into_iter()
+        .collect::<BTreeSet<_>>()
+        .into_iter()
+        .collect()
 }
 
 #[cfg(test)]
@@ -220,7 +265,11 @@ mod tests {
             (0..self.0).collect()
         }
         fn run_unit(&self, u: &u64) -> Vec<String> {
-            if u % 3 == 0 { vec![format!("x {u:04}")] } else { vec![] }
+            if u.is_multiple_of(3) {
+                vec![format!("x {u:04}")]
+            } else {
+                vec![]
+            }
         }
     }
 
@@ -230,8 +279,16 @@ mod tests {
         let stop = AtomicBool::new(false);
         let mut parts = Vec::new();
         for index in 0..7 {
-            let hooks = Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &stop };
-            let config = RunConfig { shard: Shard { index, count: 7 }, limit: None, batch: 5 };
+            let hooks = Hooks {
+                progress: &|_, _| {},
+                checkpoint: &mut |_| {},
+                stop: &stop,
+            };
+            let config = RunConfig {
+                shard: Shard { index, count: 7 },
+                limit: None,
+                batch: 5,
+            };
             let r = run(&Toy(100), config, None, hooks).unwrap();
             parts.push(r.results);
         }
@@ -253,24 +310,70 @@ mod tests {
             }
             saved = Some(serde_json::to_string(c).unwrap());
         };
-        let config = RunConfig { batch: 4, ..RunConfig::default() };
-        let first = run(&Toy(100), config, None, Hooks { progress: &|_, _| {}, checkpoint: &mut save, stop: &stop }).unwrap();
+        let config = RunConfig {
+            batch: 4,
+            ..RunConfig::default()
+        };
+        let first = run(
+            &Toy(100),
+            config,
+            None,
+            Hooks {
+                progress: &|_, _| {},
+                checkpoint: &mut save,
+                stop: &stop,
+            },
+        )
+        .unwrap();
         assert!(!first.finished);
         assert_eq!(first.next, 12);
         let resume: Checkpoint = serde_json::from_str(&saved.unwrap()).unwrap();
         let go = AtomicBool::new(false);
-        let rest = run(&Toy(100), config, Some(resume), Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &go }).unwrap();
+        let rest = run(
+            &Toy(100),
+            config,
+            Some(resume),
+            Hooks {
+                progress: &|_, _| {},
+                checkpoint: &mut |_| {},
+                stop: &go,
+            },
+        )
+        .unwrap();
         assert!(rest.finished);
         assert_eq!(rest.results, whole);
-        let wrong = run(&Toy(99), config, Some(rest), Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &go });
+        let wrong = run(
+            &Toy(99),
+            config,
+            Some(rest),
+            Hooks {
+                progress: &|_, _| {},
+                checkpoint: &mut |_| {},
+                stop: &go,
+            },
+        );
         assert!(matches!(wrong, Err(RunError::CheckpointMismatch { .. })));
     }
 
     #[test]
     fn a_limited_run_stops_at_a_batch_boundary() {
-        let config = RunConfig { limit: Some(1), batch: 10, ..RunConfig::default() };
+        let config = RunConfig {
+            limit: Some(1),
+            batch: 10,
+            ..RunConfig::default()
+        };
         let stop = AtomicBool::new(false);
-        let r = run(&Toy(100), config, None, Hooks { progress: &|_, _| {}, checkpoint: &mut |_| {}, stop: &stop }).unwrap();
+        let r = run(
+            &Toy(100),
+            config,
+            None,
+            Hooks {
+                progress: &|_, _| {},
+                checkpoint: &mut |_| {},
+                stop: &stop,
+            },
+        )
+        .unwrap();
         assert!(r.finished);
         assert_eq!(r.next, 10);
         assert_eq!(r.results, vec!["x 0000", "x 0003", "x 0006", "x 0009"]);

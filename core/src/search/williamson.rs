@@ -79,7 +79,11 @@ pub struct Unit {
 }
 
 fn mask(h: usize) -> u64 {
-    if h == 0 { 0 } else { u64::MAX >> (64 - h) }
+    if h == 0 {
+        0
+    } else {
+        u64::MAX >> (64 - h)
+    }
 }
 
 /// The full row of length m from its free bits.
@@ -101,7 +105,11 @@ fn make_row(m: usize, bits: u64, cos: &[Vec<f64>]) -> Option<Row> {
     for row in cos.iter().skip(1).take(h) {
         let mut x = 1.0;
         for (i, c) in row.iter().enumerate().skip(1).take(h) {
-            x += if bits >> (i - 1) & 1 == 1 { -2.0 * c } else { 2.0 * c };
+            x += if bits >> (i - 1) & 1 == 1 {
+                -2.0 * c
+            } else {
+                2.0 * c
+            };
         }
         let p = x * x;
         if p > limit {
@@ -110,7 +118,9 @@ fn make_row(m: usize, bits: u64, cos: &[Vec<f64>]) -> Option<Row> {
         psd.push(p);
     }
     let a = expand(m, bits);
-    let paf = (1..=h).map(|s| (0..m).map(|i| a[i] as i32 * a[(i + s) % m] as i32).sum()).collect();
+    let paf = (1..=h)
+        .map(|s| (0..m).map(|i| a[i] as i32 * a[(i + s) % m] as i32).sum())
+        .collect();
     Some(Row { bits, paf, psd })
 }
 
@@ -120,14 +130,22 @@ fn rows_with_sum(m: usize, sum: i64) -> Vec<Row> {
     let h = (m - 1) / 2;
     // r = m − 4·(number of −1 among a₁..aₕ).
     let neg = (m as i64 - sum) / 4;
-    let cos: Vec<Vec<f64>> = (0..=h).map(|k| (0..=h).map(|i| (2.0 * std::f64::consts::PI * (i * k) as f64 / m as f64).cos()).collect()).collect();
+    let cos: Vec<Vec<f64>> = (0..=h)
+        .map(|k| {
+            (0..=h)
+                .map(|i| (2.0 * std::f64::consts::PI * (i * k) as f64 / m as f64).cos())
+                .collect()
+        })
+        .collect();
     let total = 1u64 << h;
     let chunk = 1u64 << h.saturating_sub(8);
     let mut rows: Vec<Row> = (0..total.div_ceil(chunk))
         .into_par_iter()
         .flat_map_iter(|c| {
             let cos = &cos;
-            (c * chunk..((c + 1) * chunk).min(total)).filter(move |b| b.count_ones() as i64 == neg).filter_map(move |b| make_row(m, b, cos))
+            (c * chunk..((c + 1) * chunk).min(total))
+                .filter(move |b| b.count_ones() as i64 == neg)
+                .filter_map(move |b| make_row(m, b, cos))
         })
         .collect();
     rows.sort_by_key(|r| r.bits);
@@ -181,7 +199,10 @@ impl WilliamsonSearch {
     /// Prepares the search for order m (odd): the decompositions and their candidate rows.
     /// `sign_lemma` uses aᵢbᵢcᵢdᵢ = −1 in the lookup key (turn it off only to test the lemma).
     pub fn new(m: usize, mode: Mode, sign_lemma: bool) -> Self {
-        assert!(m % 2 == 1 && m <= 127, "Williamson search needs odd m ≤ 127");
+        assert!(
+            m % 2 == 1 && m <= 127,
+            "Williamson search needs odd m ≤ 127"
+        );
         let mut cache: Vec<(i64, std::sync::Arc<Vec<Row>>)> = Vec::new();
         let mut get = |s: i64| -> std::sync::Arc<Vec<Row>> {
             if let Some((_, r)) = cache.iter().find(|(t, _)| *t == s) {
@@ -194,7 +215,13 @@ impl WilliamsonSearch {
         let mut decompositions = four_odd_squares(4 * m as i64)
             .into_iter()
             .map(|abs| {
-                let sums = abs.map(|r| if (r - m as i64).rem_euclid(4) == 0 { r } else { -r });
+                let sums = abs.map(|r| {
+                    if (r - m as i64).rem_euclid(4) == 0 {
+                        r
+                    } else {
+                        -r
+                    }
+                });
                 let rows = sums.map(&mut get);
                 // Pair the largest candidate set with the smallest (it minimises the number of
                 // pairs built), and tabulate the side with fewer pairs.
@@ -204,8 +231,16 @@ impl WilliamsonSearch {
                 let q = [order[1], order[2]];
                 let size = |x: [usize; 2]| rows[x[0]].len() as u128 * rows[x[1]].len() as u128;
                 let (outer, inner) = if size(p) >= size(q) { (p, q) } else { (q, p) };
-                let leaders = (0..rows[outer[0]].len() as u32).filter(|&i| is_leader(m, rows[outer[0]][i as usize].bits)).collect();
-                Decomposition { outer, inner, rows, leaders, table: OnceLock::new() }
+                let leaders = (0..rows[outer[0]].len() as u32)
+                    .filter(|&i| is_leader(m, rows[outer[0]][i as usize].bits))
+                    .collect();
+                Decomposition {
+                    outer,
+                    inner,
+                    rows,
+                    leaders,
+                    table: OnceLock::new(),
+                }
             })
             .collect::<Vec<_>>();
         // Cheapest first (pairs to build on both sides), so a limited run reaches an easy
@@ -215,7 +250,12 @@ impl WilliamsonSearch {
             d.leaders.len() as u128 * n(d.outer[1]) + n(d.inner[0]) * n(d.inner[1])
         };
         decompositions.sort_by_key(cost);
-        WilliamsonSearch { m, mode, sign_lemma, decompositions }
+        WilliamsonSearch {
+            m,
+            mode,
+            sign_lemma,
+            decompositions,
+        }
     }
 
     fn h(&self) -> usize {
@@ -232,10 +272,21 @@ impl WilliamsonSearch {
                 .into_par_iter()
                 .flat_map_iter(|i| {
                     let xi = &x[i];
-                    y.iter().enumerate().filter(move |(_, yj)| pair_fits(m, xi, yj)).map(move |(j, yj)| {
-                        let prod = if lemma { !(xi.bits ^ yj.bits) & full } else { 0 };
-                        (key(prod, xi.paf.iter().zip(&yj.paf).map(|(p, q)| -(p + q))), i as u32, j as u32)
-                    })
+                    y.iter()
+                        .enumerate()
+                        .filter(move |(_, yj)| pair_fits(m, xi, yj))
+                        .map(move |(j, yj)| {
+                            let prod = if lemma {
+                                !(xi.bits ^ yj.bits) & full
+                            } else {
+                                0
+                            };
+                            (
+                                key(prod, xi.paf.iter().zip(&yj.paf).map(|(p, q)| -(p + q))),
+                                i as u32,
+                                j as u32,
+                            )
+                        })
                 })
                 .collect();
             t.par_sort_unstable();
@@ -285,22 +336,36 @@ fn multiply(m: usize, bits: u64, k: usize) -> u64 {
 
 /// True when no multiplier gives a smaller row.
 fn is_leader(m: usize, bits: u64) -> bool {
-    (2..=(m - 1) / 2).filter(|&k| gcd(k, m) == 1).all(|k| multiply(m, bits, k) >= bits)
+    (2..=(m - 1) / 2)
+        .filter(|&k| gcd(k, m) == 1)
+        .all(|k| multiply(m, bits, k) >= bits)
 }
 
 fn gcd(a: usize, b: usize) -> usize {
-    if b == 0 { a } else { gcd(b, a % b) }
+    if b == 0 {
+        a
+    } else {
+        gcd(b, a % b)
+    }
 }
 
 /// The free bits of a normalised symmetric row.
 fn bits_of(a: &[i8]) -> u64 {
-    (1..=(a.len() - 1) / 2).filter(|&i| a[i] == -1).fold(0, |acc, i| acc | 1 << (i - 1))
+    (1..=(a.len() - 1) / 2)
+        .filter(|&i| a[i] == -1)
+        .fold(0, |acc, i| acc | 1 << (i - 1))
 }
 
 /// The class representative of any Williamson quadruple of odd order, as a quadruple.
 pub fn canonical_form(w: &Williamson) -> Williamson {
     let m = w.m();
-    let norm = |x: &[i8]| -> u64 { if x[0] == 1 { bits_of(x) } else { bits_of(&x.iter().map(|v| -v).collect::<Vec<_>>()) } };
+    let norm = |x: &[i8]| -> u64 {
+        if x[0] == 1 {
+            bits_of(x)
+        } else {
+            bits_of(&x.iter().map(|v| -v).collect::<Vec<_>>())
+        }
+    };
     let c = WilliamsonSearch::canonical(m, [norm(&w.a), norm(&w.b), norm(&w.c), norm(&w.d)]);
     let [a, b, cc, d] = c.map(|bits| expand(m, bits));
     Williamson { a, b, c: cc, d }
@@ -308,7 +373,14 @@ pub fn canonical_form(w: &Williamson) -> Williamson {
 
 /// The seed-catalogue line (without provenance) for a quadruple.
 pub fn line(w: &Williamson) -> String {
-    format!("williamson m={} a={} b={} c={} d={}", w.m(), to_text(&w.a), to_text(&w.b), to_text(&w.c), to_text(&w.d))
+    format!(
+        "williamson m={} a={} b={} c={} d={}",
+        w.m(),
+        to_text(&w.a),
+        to_text(&w.b),
+        to_text(&w.c),
+        to_text(&w.d)
+    )
 }
 
 impl Search for WilliamsonSearch {
@@ -319,7 +391,15 @@ impl Search for WilliamsonSearch {
             Mode::Classes => "classes",
             Mode::Solutions => "solutions",
         };
-        format!("williamson m={} mode={mode}{}", self.m, if self.sign_lemma { "" } else { " no-sign-lemma" })
+        format!(
+            "williamson m={} mode={mode}{}",
+            self.m,
+            if self.sign_lemma {
+                ""
+            } else {
+                " no-sign-lemma"
+            }
+        )
     }
 
     fn units(&self) -> Vec<Unit> {
@@ -332,7 +412,11 @@ impl Search for WilliamsonSearch {
             let step = n.div_ceil(256).max(1);
             let mut from = 0;
             while from < n {
-                out.push(Unit { decomposition: k, from, to: (from + step).min(n) });
+                out.push(Unit {
+                    decomposition: k,
+                    from,
+                    to: (from + step).min(n),
+                });
                 from += step;
             }
         }
@@ -351,13 +435,19 @@ impl Search for WilliamsonSearch {
                 if !pair_fits(self.m, xi, yj) {
                     continue;
                 }
-                let prod = if self.sign_lemma { (xi.bits ^ yj.bits) & full } else { 0 };
+                let prod = if self.sign_lemma {
+                    (xi.bits ^ yj.bits) & full
+                } else {
+                    0
+                };
                 let k = key(prod, xi.paf.iter().zip(&yj.paf).map(|(a, b)| a + b));
                 let start = table.partition_point(|e| e.0 < k);
                 for &(_, i, j) in table[start..].iter().take_while(|e| e.0 == k) {
                     let (pi, qj) = (&p[i as usize], &q[j as usize]);
-                    let sums_vanish = (0..self.h()).all(|s| xi.paf[s] + yj.paf[s] + pi.paf[s] + qj.paf[s] == 0);
-                    let lemma_holds = !self.sign_lemma || (xi.bits ^ yj.bits ^ pi.bits ^ qj.bits) & full == full;
+                    let sums_vanish =
+                        (0..self.h()).all(|s| xi.paf[s] + yj.paf[s] + pi.paf[s] + qj.paf[s] == 0);
+                    let lemma_holds =
+                        !self.sign_lemma || (xi.bits ^ yj.bits ^ pi.bits ^ qj.bits) & full == full;
                     if !(sums_vanish && lemma_holds) {
                         continue;
                     }
@@ -422,7 +512,10 @@ mod tests {
             let s = WilliamsonSearch::new(m, Mode::Solutions, true);
             let one = run_to_end(&s, Some(1));
             assert!(!one.is_empty(), "m = {m}");
-            assert_eq!(one, run_to_end(&WilliamsonSearch::new(m, Mode::Solutions, true), Some(1)));
+            assert_eq!(
+                one,
+                run_to_end(&WilliamsonSearch::new(m, Mode::Solutions, true), Some(1))
+            );
             let mut cat = crate::seed::SeedCatalogue::default();
             cat.add_text("found", &format!("{} | test\n", one[0]));
             assert!(cat.rejected.is_empty() && cat.williamson.len() == 1);
@@ -438,7 +531,12 @@ mod tests {
         let w = cat.williamson[0].data.clone();
         let k = 2;
         let mul = |x: &Vec<i8>| (0..13).map(|i| x[(k * i) % 13]).collect::<Vec<i8>>();
-        let moved = Williamson { a: mul(&w.d), b: mul(&w.a).iter().map(|v| -v).collect(), c: mul(&w.c), d: mul(&w.b) };
+        let moved = Williamson {
+            a: mul(&w.d),
+            b: mul(&w.a).iter().map(|v| -v).collect(),
+            c: mul(&w.c),
+            d: mul(&w.b),
+        };
         assert!(moved.is_valid());
         assert_eq!(canonical_form(&moved), canonical_form(&w));
     }

@@ -127,7 +127,7 @@ impl Catalogue {
             Err(report) => Ok(UploadOutcome::NotHadamard(report)),
             Ok(v) => {
                 let ingested = self.ingest(&v, Provenance::Uploaded { format: parsed.format.name().to_owned() }).map_err(UploadError::Store)?;
-                Ok(UploadOutcome::Stored(ingested))
+                Ok(UploadOutcome::Stored(Box::new(ingested)))
             }
         }
     }
@@ -138,8 +138,13 @@ impl Catalogue {
             return Ok(CatalogueMatrix { id, recipe_json, created: false });
         }
         let info = route::order_info(n as u64);
-        let built = route::build_order(n as u64).map_err(|e| BuildFailure::NoRoute { message: e.to_string(), status: seed::status_name(info.status) })?;
-        let recipe = info.routes.iter().find(|r| r.buildable);
+        let Some(best) = info.routes.iter().find(|r| r.buildable) else {
+            return Err(BuildFailure::NoRoute { message: info.note.clone(), status: seed::status_name(info.status) });
+        };
+        let built = route::build(best).map_err(|e| BuildFailure::NoRoute { message: e.to_string(), status: seed::status_name(info.status) })?;
+        // The recipe replays with `route::build_recipe`, which checks it gives this very id.
+        let mut recipe = route::recipe_for(best);
+        recipe.id = Some(built.id().to_owned());
         let recipe_json = serde_json::to_string(&recipe).unwrap_or_default();
         let ingested = self.ingest(&built, Provenance::Constructed { recipe_json: recipe_json.clone() })?;
         let built_at = now_rfc3339();
@@ -198,7 +203,7 @@ pub fn certify_stored(id: &str, n: usize, blob: &[u8]) -> Result<Verified, Strin
 
 /// The answer to an upload that could be read.
 pub enum UploadOutcome {
-    Stored(Ingested),
+    Stored(Box<Ingested>),
     NotHadamard(Box<Report>),
     HasErasures { order: usize, erased: usize },
 }

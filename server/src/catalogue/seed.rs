@@ -39,7 +39,7 @@ pub fn ensure_seeded(store: &Store) -> Result<Seeded, StoreError> {
         text.push('\n');
     }
     let fingerprint = sha256_hex(text.as_bytes());
-    if store.read(|c| orders::seed_fingerprint(c))?.as_deref() == Some(fingerprint.as_str()) {
+    if store.read(orders::seed_fingerprint)?.as_deref() == Some(fingerprint.as_str()) {
         return Ok(Seeded::AlreadyCurrent);
     }
     store.write(|c| orders::replace_seed(c, &orders, &sequences, SEED_MAX_ORDER, &fingerprint))?;

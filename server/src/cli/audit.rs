@@ -46,7 +46,7 @@ pub fn run(args: AuditArgs) -> ExitCode {
             }
         })
     });
-    let integrity = store.read(|c| store::integrity_check(c));
+    let integrity = store.read(store::integrity_check);
     if let Err(e) = walked {
         eprintln!("hadamard: cannot read {}: {e}", args.db.display());
         return ExitCode::from(2);

@@ -8,7 +8,9 @@
 //! I/O error.
 
 use hadamard_core::construct::sequences::{to_text, GolayPair};
-use hadamard_core::search::{self, aperiodic, goethals_seidel, williamson, Checkpoint, Hooks, RunConfig, Search, Shard};
+use hadamard_core::search::{
+    self, aperiodic, goethals_seidel, williamson, Checkpoint, Hooks, RunConfig, Search, Shard,
+};
 use hadamard_core::seed::SeedCatalogue;
 use indicatif::{ProgressBar, ProgressStyle};
 use serde_json::json;
@@ -124,7 +126,7 @@ struct Common {
     #[arg(long)]
     checkpoint: Option<PathBuf>,
     /// Units per batch (checkpoint and progress granularity; part of a limited run's identity).
-    #[arg(long, default_value_t = 64)]
+    #[arg(long, default_value_t = 8)]
     batch: usize,
     /// Print one JSON object on stdout instead of seed lines.
     #[arg(long)]
@@ -142,29 +144,53 @@ static STOP: AtomicBool = AtomicBool::new(false);
 pub fn run(args: SearchArgs) -> ExitCode {
     let command = provenance_command(std::env::args().skip(1));
     match args.kind {
-        Kind::Williamson { order, what, common } => {
+        Kind::Williamson {
+            order,
+            what,
+            common,
+        } => {
             if order % 2 == 0 || order > 127 {
                 eprintln!("error: --order must be odd and at most 127");
                 return ExitCode::from(2);
             }
-            let mode = if what.classes { williamson::Mode::Classes } else { williamson::Mode::Solutions };
+            let mode = if what.classes {
+                williamson::Mode::Classes
+            } else {
+                williamson::Mode::Solutions
+            };
             let s = williamson::WilliamsonSearch::new(order, mode, true);
             drive(&s, &what, &common, &command)
         }
-        Kind::Golay { length, products, max_length, what, common } => {
+        Kind::Golay {
+            length,
+            products,
+            max_length,
+            what,
+            common,
+        } => {
             if products {
                 return golay_products(max_length, &common, &command);
             }
             let g = length.unwrap_or(0);
-            let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Golay(g), aperiodic::Mode::Solutions);
+            let s = aperiodic::AperiodicSearch::new(
+                aperiodic::Family::Golay(g),
+                aperiodic::Mode::Solutions,
+            );
             drive(&s, &what, &common, &command)
         }
         Kind::Base { n, what, common } => {
-            let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Base(n), aperiodic::Mode::Solutions);
+            let s = aperiodic::AperiodicSearch::new(
+                aperiodic::Family::Base(n),
+                aperiodic::Mode::Solutions,
+            );
             drive(&s, &what, &common, &command)
         }
         Kind::Turyn { n, what, common } => {
-            let mode = if what.classes { aperiodic::Mode::Classes } else { aperiodic::Mode::Solutions };
+            let mode = if what.classes {
+                aperiodic::Mode::Classes
+            } else {
+                aperiodic::Mode::Solutions
+            };
             let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(n), mode);
             drive(&s, &what, &common, &command)
         }
@@ -172,14 +198,18 @@ pub fn run(args: SearchArgs) -> ExitCode {
             let s = goethals_seidel::GsSearch::new(v);
             drive(&s, &what, &common, &command)
         }
-        Kind::Merge { files, json, append_to } => merge(&files, json, append_to.as_deref()),
+        Kind::Merge {
+            files,
+            json,
+            append_to,
+        } => merge(&files, json, append_to.as_deref()),
     }
 }
 
 /// The command line as the provenance states it: the search and its parameters, without the
 /// options that only say where output and state go (the shard is stated separately).
 fn provenance_command(args: impl Iterator<Item = String>) -> String {
-    const WITH_VALUE: [&str; 4] = ["--checkpoint", "--append-to", "--shard", "--batch"];
+    const WITH_VALUE: [&str; 3] = ["--checkpoint", "--append-to", "--shard"];
     const FLAGS: [&str; 2] = ["--json", "--quiet"];
     let mut kept = vec!["hadamard".to_string()];
     let mut skip_next = false;
@@ -202,7 +232,10 @@ fn provenance_command(args: impl Iterator<Item = String>) -> String {
 
 fn today() -> String {
     // Days since 1970-01-01 to a civil date (Hinnant's algorithm), so no date crate is needed.
-    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs()).unwrap_or(0);
+    let secs = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_secs())
+        .unwrap_or(0);
     let z = (secs / 86_400) as i64 + 719_468;
     let era = z.div_euclid(146_097);
     let doe = z - era * 146_097;
@@ -217,7 +250,12 @@ fn today() -> String {
 
 fn watch_ctrl_c() {
     std::thread::spawn(|| {
-        let Ok(rt) = tokio::runtime::Builder::new_current_thread().enable_all().build() else { return };
+        let Ok(rt) = tokio::runtime::Builder::new_current_thread()
+            .enable_all()
+            .build()
+        else {
+            return;
+        };
         rt.block_on(async {
             if tokio::signal::ctrl_c().await.is_ok() {
                 eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
@@ -232,7 +270,9 @@ fn watch_ctrl_c() {
 
 fn load_checkpoint(path: &Path) -> Result<Option<Checkpoint>, String> {
     match std::fs::read_to_string(path) {
-        Ok(text) => serde_json::from_str(&text).map(Some).map_err(|e| format!("{}: not a search checkpoint: {e}", path.display())),
+        Ok(text) => serde_json::from_str(&text)
+            .map(Some)
+            .map_err(|e| format!("{}: not a search checkpoint: {e}", path.display())),
         Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(None),
         Err(e) => Err(format!("{}: {e}", path.display())),
     }
@@ -245,7 +285,12 @@ fn save_checkpoint(path: &Path, c: &Checkpoint) -> std::io::Result<()> {
 }
 
 fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitCode {
-    let resume = match common.checkpoint.as_deref().map(load_checkpoint).transpose() {
+    let resume = match common
+        .checkpoint
+        .as_deref()
+        .map(load_checkpoint)
+        .transpose()
+    {
         Ok(c) => c.flatten(),
         Err(e) => {
             eprintln!("error: {e}");
@@ -253,8 +298,16 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         }
     };
     let limit = (!what.classes && !what.all).then_some(what.limit.max(1));
-    let config = RunConfig { shard: common.shard, limit, batch: common.batch };
-    let bar = if common.quiet { ProgressBar::hidden() } else { ProgressBar::new(0) };
+    let config = RunConfig {
+        shard: common.shard,
+        limit,
+        batch: common.batch,
+    };
+    let bar = if common.quiet {
+        ProgressBar::hidden()
+    } else {
+        ProgressBar::new(0)
+    };
     bar.set_style(ProgressStyle::with_template("{spinner} [{elapsed_precise}] {wide_bar} {pos}/{len} units  {per_sec}  ETA {eta}  {msg}").unwrap_or_else(|_| ProgressStyle::default_bar()));
     watch_ctrl_c();
     let progress = |done: u64, total: u64| {
@@ -271,7 +324,16 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         }
     };
     let start = Instant::now();
-    let state = match search::run(s, config, resume, Hooks { progress: &progress, checkpoint: &mut save, stop: &STOP }) {
+    let state = match search::run(
+        s,
+        config,
+        resume,
+        Hooks {
+            progress: &progress,
+            checkpoint: &mut save,
+            stop: &STOP,
+        },
+    ) {
         Ok(st) => st,
         Err(e) => {
             bar.abandon();
@@ -285,7 +347,11 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
     }
     let elapsed = start.elapsed().as_secs_f64();
     let provenance = format!("found by {command} (shard {}); {}", common.shard, today());
-    let lines: Vec<String> = state.results.iter().map(|r| format!("{r} | {provenance}")).collect();
+    let lines: Vec<String> = state
+        .results
+        .iter()
+        .map(|r| format!("{r} | {provenance}"))
+        .collect();
     if let Some(bad) = first_rejected(&lines) {
         eprintln!("error: a result failed its identity (a bug in the search): {bad}");
         return ExitCode::from(2);
@@ -313,7 +379,11 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         state.next,
         state.total,
         common.shard,
-        if state.finished { "" } else { " (stopped: resume with the same --checkpoint)" }
+        if state.finished {
+            ""
+        } else {
+            " (stopped: resume with the same --checkpoint)"
+        }
     );
     if let Some(p) = &common.append_to {
         if let Err(e) = append_new(p, &lines) {
@@ -344,7 +414,10 @@ fn data_part(line: &str) -> &str {
 fn append_new(path: &Path, lines: &[String]) -> std::io::Result<()> {
     let existing = std::fs::read_to_string(path).unwrap_or_default();
     let known: std::collections::HashSet<&str> = existing.lines().map(data_part).collect();
-    let mut f = std::fs::OpenOptions::new().create(true).append(true).open(path)?;
+    let mut f = std::fs::OpenOptions::new()
+        .create(true)
+        .append(true)
+        .open(path)?;
     let mut added = 0;
     for l in lines {
         if !known.contains(data_part(l)) {
@@ -369,8 +442,20 @@ fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>) -> ExitCode {
             }
         };
         let lines: Vec<String> = match serde_json::from_str::<serde_json::Value>(&text) {
-            Ok(v) => v["results"].as_array().map(|a| a.iter().filter_map(|x| x.as_str().map(String::from)).collect()).unwrap_or_default(),
-            Err(_) => text.lines().map(str::trim).filter(|l| !l.is_empty() && !l.starts_with('#')).map(String::from).collect(),
+            Ok(v) => v["results"]
+                .as_array()
+                .map(|a| {
+                    a.iter()
+                        .filter_map(|x| x.as_str().map(String::from))
+                        .collect()
+                })
+                .unwrap_or_default(),
+            Err(_) => text
+                .lines()
+                .map(str::trim)
+                .filter(|l| !l.is_empty() && !l.starts_with('#'))
+                .map(String::from)
+                .collect(),
         };
         for l in lines {
             all.entry(data_part(&l).to_string()).or_insert(l);
@@ -382,13 +467,20 @@ fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>) -> ExitCode {
         return ExitCode::from(2);
     }
     if json {
-        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default()
+        );
     } else {
         for l in &lines {
             println!("{l}");
         }
     }
-    eprintln!("merged {} file(s): {} distinct result(s)", files.len(), lines.len());
+    eprintln!(
+        "merged {} file(s): {} distinct result(s)",
+        files.len(),
+        lines.len()
+    );
     if let Some(p) = append_to {
         if let Err(e) = append_new(p, &lines) {
             eprintln!("error: {}: {e}", p.display());
@@ -404,7 +496,10 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
     let cat = hadamard_core::seed::embedded();
     let mut known: BTreeMap<usize, (GolayPair, String)> = BTreeMap::new();
     for e in &cat.golay {
-        known.entry(e.data.len()).or_insert((e.data.clone(), format!("the catalogue pair of length {}", e.data.len())));
+        known.entry(e.data.len()).or_insert((
+            e.data.clone(),
+            format!("the catalogue pair of length {}", e.data.len()),
+        ));
     }
     let seeds: Vec<usize> = known.keys().copied().collect();
     let mut built: Vec<(GolayPair, String)> = Vec::new();
@@ -432,14 +527,24 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
     let date = today();
     let lines: Vec<String> = built
         .iter()
-        .map(|(g, how)| format!("golay g={} a={} b={} | built by {command}: {how}; {date}", g.len(), to_text(&g.a), to_text(&g.b)))
+        .map(|(g, how)| {
+            format!(
+                "golay g={} a={} b={} | built by {command}: {how}; {date}",
+                g.len(),
+                to_text(&g.a),
+                to_text(&g.b)
+            )
+        })
         .collect();
     if let Some(bad) = first_rejected(&lines) {
         eprintln!("error: a product failed the identity (a bug): {bad}");
         return ExitCode::from(2);
     }
     if common.json {
-        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default()
+        );
     } else {
         for l in &lines {
             println!("{l}");

@@ -81,7 +81,7 @@ pub fn encode(m: &Matrix) -> Vec<u8> {
 
 /// The matrix of a blob, or `None` when its length does not fit order `n`.
 pub fn decode(n: usize, blob: &[u8]) -> Option<Matrix> {
-    if blob.len() % 8 != 0 {
+    if !blob.len().is_multiple_of(8) {
         return None;
     }
     let words = blob.chunks_exact(8).map(|c| u64::from_le_bytes(c.try_into().unwrap_or([0; 8]))).collect();

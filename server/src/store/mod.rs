@@ -172,6 +172,13 @@ fn migrate(c: &mut Connection) -> Result<(), StoreError> {
     Ok(())
 }
 
+/// Moves the write-ahead log into the main file and empties it (on shutdown, so the file
+/// alone is a complete copy).
+pub fn checkpoint(c: &mut Connection) -> Result<(), StoreError> {
+    c.query_row("PRAGMA wal_checkpoint(TRUNCATE)", [], |_| Ok(()))?;
+    Ok(())
+}
+
 /// Reads a `meta` value.
 pub fn meta_get(c: &Connection, key: &str) -> Result<Option<String>, StoreError> {
     Ok(c.query_row("SELECT value FROM meta WHERE key = ?1", [key], |r| r.get(0)).optional()?)
