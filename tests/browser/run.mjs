@@ -204,6 +204,13 @@ try {
     // The read is one step; the check yields every ~25 ms.
     assert(worst < 500, `the page stalled for ${worst.toFixed(0)} ms`);
     console.log(`     longest stall ${worst.toFixed(0)} ms`);
+    await page.click('button[aria-label="Zoom in"]');
+    await page.click('button[aria-label="Zoom in"]');
+    const caption = await page.textContent('.picture .caption');
+    assert(caption.startsWith('Zoom 4×: rows 769–1280'), `caption after zooming: ${caption}`);
+    await page.focus('.picture canvas');
+    await page.keyboard.press('ArrowDown');
+    assert((await page.textContent('.picture .caption')).includes('rows 897–1408'), 'arrow key pans');
   });
 
   await test('publish, then "already in the catalogue"', async (page) => {

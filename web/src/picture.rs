@@ -253,11 +253,11 @@ pub fn MatrixPicture(
                 on:pointercancel=on_up
             ></canvas>
             <figcaption>
-                <span class="zoom" role="group" aria-label="Zoom">
+                <span class="zoom" role="group" aria-label="Zoom" hidden={zmax == 1}>
                     <button type="button" on:click=move |_| zo((view_sig.get_untracked().zoom / 2).max(1))
                         disabled=move || view_sig.get().zoom == 1 aria-label="Zoom out">"−"</button>
                     <button type="button" on:click=move |_| zi((view_sig.get_untracked().zoom * 2).min(zmax))
-                        disabled=move || view_sig.get().zoom >= zmax aria-label="Zoom in">"+"</button>
+                        disabled=move || { view_sig.get().zoom >= zmax } aria-label="Zoom in">"+"</button>
                     <button type="button" on:click=move |_| zr(1) disabled=move || !zoomed()>"Whole matrix"</button>
                 </span>
                 <span class="caption" aria-live="polite">{caption}</span>
