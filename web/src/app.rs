@@ -42,7 +42,11 @@ static LOCATION: std::sync::OnceLock<RwSignal<String>> = std::sync::OnceLock::ne
 
 fn current_location() -> String {
     let l = window().location();
-    format!("{}{}", l.pathname().unwrap_or_default(), l.search().unwrap_or_default())
+    format!(
+        "{}{}",
+        l.pathname().unwrap_or_default(),
+        l.search().unwrap_or_default()
+    )
 }
 
 /// Goes to an in-app URL (a path with an optional query), adding a history entry.
@@ -127,16 +131,33 @@ fn title_of(s: &Screen) -> String {
 /// Turns clicks on in-app links into history navigation (one listener for the whole page).
 fn intercept_links() {
     let handler = Closure::<dyn Fn(web_sys::MouseEvent)>::new(|ev: web_sys::MouseEvent| {
-        if ev.default_prevented() || ev.button() != 0 || ev.ctrl_key() || ev.meta_key() || ev.shift_key() || ev.alt_key() {
+        if ev.default_prevented()
+            || ev.button() != 0
+            || ev.ctrl_key()
+            || ev.meta_key()
+            || ev.shift_key()
+            || ev.alt_key()
+        {
             return;
         }
-        let Some(target) = ev.target().and_then(|t| t.dyn_into::<web_sys::Element>().ok()) else { return };
-        let Some(a) = target.closest("a[href]").ok().flatten() else { return };
+        let Some(target) = ev
+            .target()
+            .and_then(|t| t.dyn_into::<web_sys::Element>().ok())
+        else {
+            return;
+        };
+        let Some(a) = target.closest("a[href]").ok().flatten() else {
+            return;
+        };
         if a.has_attribute("download") || a.has_attribute("target") {
             return;
         }
         let href = a.get_attribute("href").unwrap_or_default();
-        if !href.starts_with('/') || href.starts_with("//") || href.starts_with("/api/") || href.starts_with("/pkg/") {
+        if !href.starts_with('/')
+            || href.starts_with("//")
+            || href.starts_with("/api/")
+            || href.starts_with("/pkg/")
+        {
             return;
         }
         ev.prevent_default();

@@ -33,7 +33,10 @@ const DOWNLOADS: [(&str, &str, &str); 8] = [
 
 fn facts_list(v: &Value) -> Vec<(String, String)> {
     match v.as_object() {
-        Some(o) => o.iter().map(|(k, val)| (k.replace('_', " "), api::plain(val))).collect(),
+        Some(o) => o
+            .iter()
+            .map(|(k, val)| (k.replace('_', " "), api::plain(val)))
+            .collect(),
         None => match v {
             Value::Null => Vec::new(),
             other => vec![(String::new(), api::plain(other))],
@@ -52,11 +55,16 @@ fn dl(items: Vec<(String, String)>) -> impl IntoView {
 /// Where the matrix came from: built by a route (drawn as its tree) or uploaded.
 fn provenance_view(p: &Value, catalogue: bool, order: u64) -> AnyView {
     let kind = api::s(p, "kind").unwrap_or("");
-    let own = catalogue.then(|| view! { <p>{format!("This is the catalogue's own matrix of order {order}.")}</p> });
+    let own = catalogue.then(
+        || view! { <p>{format!("This is the catalogue's own matrix of order {order}.")}</p> },
+    );
     match kind {
         "constructed" => {
             let at = api::s(p, "constructed_at").unwrap_or("").to_string();
-            let tree = p.get("recipe").and_then(|r| r.get("tree")).map(|t| node_view(t, order));
+            let tree = p
+                .get("recipe")
+                .and_then(|r| r.get("tree"))
+                .map(|t| node_view(t, order));
             view! {
                 {own}
                 <p>{format!("Built and checked by this program{}, by this route (its recipe replays to the same matrix):", if at.is_empty() { String::new() } else { format!(" on {at}") })}</p>
@@ -100,8 +108,13 @@ pub fn Entry(id: String) -> impl IntoView {
         spawn_local(async move {
             let got = match api::get_bytes(&url).await {
                 Ok((200, bytes)) => {
-                    let opts = ReadOptions { format: Some(Format::Pm), ..ReadOptions::default() };
-                    formats::read(&bytes, &opts).map(|p| Arc::new(p.matrix)).map_err(|e| format!("the download could not be read: {e}"))
+                    let opts = ReadOptions {
+                        format: Some(Format::Pm),
+                        ..ReadOptions::default()
+                    };
+                    formats::read(&bytes, &opts)
+                        .map(|p| Arc::new(p.matrix))
+                        .map_err(|e| format!("the download could not be read: {e}"))
                 }
                 Ok((status, _)) => Err(format!("the download answered {status}")),
                 Err(e) => Err(e),
@@ -116,7 +129,11 @@ pub fn Entry(id: String) -> impl IntoView {
         spawn_local(async move {
             let clip = crate::app::window().navigator().clipboard();
             let ok = JsFuture::from(clip.write_text(&url)).await.is_ok();
-            copied.set(Some(if ok { "Copied the permanent link.".into() } else { "Could not copy; select the link above and copy it.".into() }));
+            copied.set(Some(if ok {
+                "Copied the permanent link.".into()
+            } else {
+                "Could not copy; select the link above and copy it.".into()
+            }));
         });
     };
 

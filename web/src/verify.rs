@@ -28,7 +28,8 @@ const PAIRS_SHOWN: usize = 12;
 const SLICE_MS: f64 = 25.0;
 
 /// Sylvester's matrix of order 8, for the "try an example" button.
-const EXAMPLE: &str = "++++++++\n+-+-+-+-\n++--++--\n+--++--+\n++++----\n+-+--+-+\n++----++\n+--+-++-\n";
+const EXAMPLE: &str =
+    "++++++++\n+-+-+-+-\n++--++--\n+--++--+\n++++----\n+-+--+-+\n++----++\n+--+-++-\n";
 
 /// The input, as the person gave it: these exact bytes are what "Publish" sends.
 #[derive(Clone)]
@@ -41,7 +42,12 @@ struct Source {
 #[derive(Clone)]
 enum Fix {
     /// One wrong sign, 0-based.
-    Sign { row: usize, col: usize, id: String, corrected: Arc<Matrix> },
+    Sign {
+        row: usize,
+        col: usize,
+        id: String,
+        corrected: Arc<Matrix>,
+    },
     /// The erased entries have exactly one Hadamard completion.
     Completed { id: String, corrected: Arc<Matrix> },
 }
@@ -75,14 +81,22 @@ enum Phase {
 enum Publish {
     Idle,
     Sending,
-    Stored { id: String, url: String, existed: bool, similar: Vec<String>, note: Option<String> },
+    Stored {
+        id: String,
+        url: String,
+        existed: bool,
+        similar: Vec<String>,
+        note: Option<String>,
+    },
     Refused(String),
 }
 
 /// Which rows to point out: the one row every listed pair shares, else every listed row.
 fn marked_rows(r: &Report) -> Vec<usize> {
     let pairs = &r.failing_pairs;
-    let Some(first) = pairs.first() else { return Vec::new() };
+    let Some(first) = pairs.first() else {
+        return Vec::new();
+    };
     for c in [first.i, first.j] {
         if pairs.len() > 1 && pairs.iter().all(|p| p.i == c || p.j == c) {
             return vec![c];
@@ -106,10 +120,18 @@ fn completion_words(c: &Completion) -> String {
 
 /// Reads and checks `bytes`, yielding to the page between slices; gives up quietly when
 /// `still_wanted` turns false (a newer input arrived).
-async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phase>, still_wanted: impl Fn() -> bool) {
+async fn check(
+    bytes: Arc<Vec<u8>>,
+    format: Option<Format>,
+    phase: RwSignal<Phase>,
+    still_wanted: impl Fn() -> bool,
+) {
     phase.set(Phase::Reading);
     next_tick().await;
-    let opts = ReadOptions { format, ..ReadOptions::default() };
+    let opts = ReadOptions {
+        format,
+        ..ReadOptions::default()
+    };
     let read_start = now_ms();
     let parsed = formats::read(&bytes, &opts);
     let read_ms = now_ms() - read_start;
@@ -159,11 +181,19 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
         let c = repair::complete(&m, &parsed.erasures, repair::CompletionLimits::default());
         completion = Some(completion_words(&c));
         if let Completion::Unique { id, matrix } = c {
-            fix = Some(Fix::Completed { id, corrected: Arc::new(matrix.into_matrix()) });
+            fix = Some(Fix::Completed {
+                id,
+                corrected: Arc::new(matrix.into_matrix()),
+            });
         }
     } else if !hadamard {
         if let Some(r) = repair::single_wrong_entry(&m, &report) {
-            fix = Some(Fix::Sign { row: r.row, col: r.col, id: r.corrected_id, corrected: Arc::new(r.corrected.into_matrix()) });
+            fix = Some(Fix::Sign {
+                row: r.row,
+                col: r.col,
+                id: r.corrected_id,
+                corrected: Arc::new(r.corrected.into_matrix()),
+            });
         }
     }
     let marked = match &fix {
@@ -188,7 +218,9 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
 }
 
 async fn read_file(file: web_sys::File) -> Result<Vec<u8>, String> {
-    let buf = JsFuture::from(file.array_buffer()).await.map_err(|_| format!("{} could not be read", file.name()))?;
+    let buf = JsFuture::from(file.array_buffer())
+        .await
+        .map_err(|_| format!("{} could not be read", file.name()))?;
     Ok(js_sys::Uint8Array::new(&buf).to_vec())
 }
 
@@ -205,7 +237,11 @@ fn equivalence_of(body: &Value) -> (Vec<String>, Option<String>) {
     let e = body.get("equivalence").unwrap_or(&Value::Null);
     let ids = api::arr(e, "possibly_equivalent_to")
         .iter()
-        .filter_map(|v| v.as_str().map(str::to_string).or_else(|| api::s(v, "id").map(str::to_string)))
+        .filter_map(|v| {
+            v.as_str()
+                .map(str::to_string)
+                .or_else(|| api::s(v, "id").map(str::to_string))
+        })
         .collect();
     (ids, api::s(e, "note").map(str::to_string))
 }
@@ -230,17 +266,25 @@ pub fn VerifyPanel(
         let f = format.get_untracked().parse::<Format>().ok();
         source.set(Some(src.clone()));
         publish.set(Publish::Idle);
-        spawn_local(check(src.bytes, f, phase, move || generation.get_value() == mine));
+        spawn_local(check(src.bytes, f, phase, move || {
+            generation.get_value() == mine
+        }));
     };
     let run_text = move || {
         let t = text.get_untracked();
-        run(Source { bytes: Arc::new(t.into_bytes()), name: "the pasted text".into() });
+        run(Source {
+            bytes: Arc::new(t.into_bytes()),
+            name: "the pasted text".into(),
+        });
     };
     let run_file = move |file: web_sys::File| {
         spawn_local(async move {
             let name = file.name();
             match read_file(file).await {
-                Ok(bytes) => run(Source { bytes: Arc::new(bytes), name }),
+                Ok(bytes) => run(Source {
+                    bytes: Arc::new(bytes),
+                    name,
+                }),
                 Err(e) => phase.set(Phase::Malformed(e)),
             }
         });
@@ -255,7 +299,11 @@ pub fn VerifyPanel(
     let on_drop = move |ev: web_sys::DragEvent| {
         ev.prevent_default();
         dragging.set(false);
-        if let Some(file) = ev.data_transfer().and_then(|d| d.files()).and_then(|fs| fs.get(0)) {
+        if let Some(file) = ev
+            .data_transfer()
+            .and_then(|d| d.files())
+            .and_then(|fs| fs.get(0))
+        {
             run_file(file);
         }
     };
@@ -263,21 +311,36 @@ pub fn VerifyPanel(
         let pm = m.canonical_text();
         text.set(pm.clone());
         format.set("auto".into());
-        run(Source { bytes: Arc::new(pm.into_bytes()), name: "the corrected matrix".into() });
+        run(Source {
+            bytes: Arc::new(pm.into_bytes()),
+            name: "the corrected matrix".into(),
+        });
     };
     let do_publish = move || {
-        let Some(src) = source.get_untracked() else { return };
+        let Some(src) = source.get_untracked() else {
+            return;
+        };
         publish.set(Publish::Sending);
         spawn_local(async move {
             let answer = api::post_bytes("/api/matrices", &src.bytes).await;
             publish.set(match answer {
                 Ok(r) if r.status == 200 || r.status == 201 => {
                     let id = api::s(&r.body, "id").unwrap_or_default().to_string();
-                    let url = api::s(&r.body, "url").map(str::to_string).unwrap_or_else(|| format!("/m/{id}"));
+                    let url = api::s(&r.body, "url")
+                        .map(str::to_string)
+                        .unwrap_or_else(|| format!("/m/{id}"));
                     let (similar, note) = equivalence_of(&r.body);
-                    Publish::Stored { existed: r.status == 200, similar: similar.into_iter().filter(|s| *s != id).collect(), note, id, url }
+                    Publish::Stored {
+                        existed: r.status == 200,
+                        similar: similar.into_iter().filter(|s| *s != id).collect(),
+                        note,
+                        id,
+                        url,
+                    }
                 }
-                Ok(r) if r.status == 413 => Publish::Refused("The file is larger than the server accepts.".into()),
+                Ok(r) if r.status == 413 => {
+                    Publish::Refused("The file is larger than the server accepts.".into())
+                }
                 Ok(r) => Publish::Refused(format!("The server refused it: {}", r.error())),
                 Err(e) => Publish::Refused(format!("Not published: {e}.")),
             });
@@ -291,7 +354,10 @@ pub fn VerifyPanel(
         _ => None,
     };
     let timing = move |which: u8| match phase.get() {
-        Phase::Done(o) => Some(format!("{:.1}", if which == 0 { o.read_ms } else { o.millis })),
+        Phase::Done(o) => Some(format!(
+            "{:.1}",
+            if which == 0 { o.read_ms } else { o.millis }
+        )),
         _ => None,
     };
     let verdict_class = move || match verdict_attr() {
@@ -433,10 +499,18 @@ pub fn absolute(url: &str) -> String {
 }
 
 #[component]
-fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy + 'static) -> impl IntoView {
+fn Verdict(
+    o: Outcome,
+    name: String,
+    use_corrected: impl Fn(Arc<Matrix>) + Copy + 'static,
+) -> impl IntoView {
     let r = o.report.clone();
     let n = r.order;
-    let shape = if r.order == r.cols { format!("order {n}") } else { format!("{}×{}", r.order, r.cols) };
+    let shape = if r.order == r.cols {
+        format!("order {n}")
+    } else {
+        format!("{}×{}", r.order, r.cols)
+    };
     let headline = if o.hadamard {
         format!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {n}·I).")
     } else {
@@ -498,11 +572,20 @@ fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy 
         .into_any(),
     });
     let p = &r.properties;
-    let props: Vec<&str> = [(p.normalized, "normalized"), (p.symmetric, "symmetric"), (p.skew, "skew"), (p.regular, "regular")]
-        .into_iter()
-        .filter_map(|(on, name)| on.then_some(name))
-        .collect();
-    let props = if props.is_empty() { "none of normalized, symmetric, skew, regular".to_string() } else { props.join(", ") };
+    let props: Vec<&str> = [
+        (p.normalized, "normalized"),
+        (p.symmetric, "symmetric"),
+        (p.skew, "skew"),
+        (p.regular, "regular"),
+    ]
+    .into_iter()
+    .filter_map(|(on, name)| on.then_some(name))
+    .collect();
+    let props = if props.is_empty() {
+        "none of normalized, symmetric, skew, regular".to_string()
+    } else {
+        props.join(", ")
+    };
     let label = format!("Picture of the matrix, {shape}: light squares are +1, dark squares −1.");
     let cell = match &o.fix {
         Some(Fix::Sign { row, col, .. }) => Some((*row, *col)),
