@@ -24,29 +24,44 @@ impl Reply {
 
     /// The server's `error` message, or a generic one naming the status.
     pub fn error(&self) -> String {
-        self.body.get("error").and_then(Value::as_str).map(str::to_string).unwrap_or_else(|| format!("the server answered {}", self.status))
+        self.body
+            .get("error")
+            .and_then(Value::as_str)
+            .map(str::to_string)
+            .unwrap_or_else(|| format!("the server answered {}", self.status))
     }
 }
 
 async fn send(req: Request) -> Result<Response, String> {
-    let resp = JsFuture::from(window().fetch_with_request(&req)).await.map_err(|_| "the server could not be reached".to_string())?;
-    resp.dyn_into::<Response>().map_err(|_| "the server's answer was not a response".to_string())
+    let resp = JsFuture::from(window().fetch_with_request(&req))
+        .await
+        .map_err(|_| "the server could not be reached".to_string())?;
+    resp.dyn_into::<Response>()
+        .map_err(|_| "the server's answer was not a response".to_string())
 }
 
 async fn json_of(resp: Response) -> Reply {
     let status = resp.status();
     let text = match resp.text() {
-        Ok(p) => JsFuture::from(p).await.ok().and_then(|t| t.as_string()).unwrap_or_default(),
+        Ok(p) => JsFuture::from(p)
+            .await
+            .ok()
+            .and_then(|t| t.as_string())
+            .unwrap_or_default(),
         Err(_) => String::new(),
     };
-    Reply { status, body: serde_json::from_str(&text).unwrap_or(Value::Null) }
+    Reply {
+        status,
+        body: serde_json::from_str(&text).unwrap_or(Value::Null),
+    }
 }
 
 /// GET a JSON resource.
 pub async fn get(url: &str) -> Result<Reply, String> {
     let init = RequestInit::new();
     init.set_method("GET");
-    let req = Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
+    let req =
+        Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
     let _ = req.headers().set("Accept", "application/json");
     Ok(json_of(send(req).await?).await)
 }
@@ -57,7 +72,9 @@ pub async fn get_bytes(url: &str) -> Result<(u16, Vec<u8>), String> {
     let resp = send(req).await?;
     let status = resp.status();
     let buf = match resp.array_buffer() {
-        Ok(p) => JsFuture::from(p).await.map_err(|_| "the download was cut short".to_string())?,
+        Ok(p) => JsFuture::from(p)
+            .await
+            .map_err(|_| "the download was cut short".to_string())?,
         Err(_) => return Err("the download could not be read".into()),
     };
     Ok((status, Uint8Array::new(&buf).to_vec()))
@@ -69,8 +86,11 @@ pub async fn post_bytes(url: &str, bytes: &[u8]) -> Result<Reply, String> {
     init.set_method("POST");
     let body = Uint8Array::from(bytes);
     init.set_body(&body);
-    let req = Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
-    let _ = req.headers().set("Content-Type", "application/octet-stream");
+    let req =
+        Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
+    let _ = req
+        .headers()
+        .set("Content-Type", "application/octet-stream");
     let _ = req.headers().set("Accept", "application/json");
     Ok(json_of(send(req).await?).await)
 }
@@ -92,7 +112,10 @@ pub fn b(v: &Value, key: &str) -> Option<bool> {
 
 /// `v[key]` as an array (empty if absent).
 pub fn arr<'a>(v: &'a Value, key: &str) -> &'a [Value] {
-    v.get(key).and_then(Value::as_array).map(Vec::as_slice).unwrap_or(&[])
+    v.get(key)
+        .and_then(Value::as_array)
+        .map(Vec::as_slice)
+        .unwrap_or(&[])
 }
 
 /// A JSON value in words: strings bare, everything else as compact JSON.

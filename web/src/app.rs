@@ -36,13 +36,17 @@ pub fn document() -> web_sys::Document {
     window().document().expect("the window has a document")
 }
 
-/// The current location, path and query, as the router sees it.
-#[derive(Clone, Copy)]
-pub struct Location(pub RwSignal<String>);
+/// The current location, path and query, as the router sees it. Global rather than a context,
+/// because the document's link listener runs outside any reactive owner.
+static LOCATION: std::sync::OnceLock<RwSignal<String>> = std::sync::OnceLock::new();
 
 fn current_location() -> String {
     let l = window().location();
-    format!("{}{}", l.pathname().unwrap_or_default(), l.search().unwrap_or_default())
+    format!(
+        "{}{}",
+        l.pathname().unwrap_or_default(),
+        l.search().unwrap_or_default()
+    )
 }
 
 /// Goes to an in-app URL (a path with an optional query), adding a history entry.
@@ -50,7 +54,7 @@ pub fn navigate(url: &str) {
     if let Ok(h) = window().history() {
         let _ = h.push_state_with_url(&JsValue::NULL, "", Some(url));
     }
-    if let Some(Location(loc)) = use_context::<Location>() {
+    if let Some(loc) = LOCATION.get() {
         loc.set(url.to_string());
     }
     after_navigation();
@@ -127,16 +131,33 @@ fn title_of(s: &Screen) -> String {
 /// Turns clicks on in-app links into history navigation (one listener for the whole page).
 fn intercept_links() {
     let handler = Closure::<dyn Fn(web_sys::MouseEvent)>::new(|ev: web_sys::MouseEvent| {
-        if ev.default_prevented() || ev.button() != 0 || ev.ctrl_key() || ev.meta_key() || ev.shift_key() || ev.alt_key() {
+        if ev.default_prevented()
+            || ev.button() != 0
+            || ev.ctrl_key()
+            || ev.meta_key()
+            || ev.shift_key()
+            || ev.alt_key()
+        {
             return;
         }
-        let Some(target) = ev.target().and_then(|t| t.dyn_into::<web_sys::Element>().ok()) else { return };
-        let Some(a) = target.closest("a[href]").ok().flatten() else { return };
+        let Some(target) = ev
+            .target()
+            .and_then(|t| t.dyn_into::<web_sys::Element>().ok())
+        else {
+            return;
+        };
+        let Some(a) = target.closest("a[href]").ok().flatten() else {
+            return;
+        };
         if a.has_attribute("download") || a.has_attribute("target") {
             return;
         }
         let href = a.get_attribute("href").unwrap_or_default();
-        if !href.starts_with('/') || href.starts_with("//") || href.starts_with("/api/") || href.starts_with("/pkg/") {
+        if !href.starts_with('/')
+            || href.starts_with("//")
+            || href.starts_with("/api/")
+            || href.starts_with("/pkg/")
+        {
             return;
         }
         ev.prevent_default();
@@ -148,8 +169,7 @@ fn intercept_links() {
 
 #[component]
 fn App() -> impl IntoView {
-    let loc = RwSignal::new(current_location());
-    provide_context(Location(loc));
+    let loc = *LOCATION.get_or_init(|| RwSignal::new(current_location()));
     intercept_links();
     let on_pop = Closure::<dyn Fn()>::new(move || loc.set(current_location()));
     let _ = window().add_event_listener_with_callback("popstate", on_pop.as_ref().unchecked_ref());

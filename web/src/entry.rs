@@ -5,7 +5,7 @@
 //! they match the id, so the link is checked in the reader's own browser.
 
 use crate::api;
-use crate::lookup::{fetch, provenance_words};
+use crate::lookup::{fetch, node_view};
 use crate::picture::MatrixPicture;
 use crate::verify::absolute;
 use hadamard_core::formats::{self, Format, ReadOptions};
@@ -33,7 +33,10 @@ const DOWNLOADS: [(&str, &str, &str); 8] = [
 
 fn facts_list(v: &Value) -> Vec<(String, String)> {
     match v.as_object() {
-        Some(o) => o.iter().map(|(k, val)| (k.replace('_', " "), api::plain(val))).collect(),
+        Some(o) => o
+            .iter()
+            .map(|(k, val)| (k.replace('_', " "), api::plain(val)))
+            .collect(),
         None => match v {
             Value::Null => Vec::new(),
             other => vec![(String::new(), api::plain(other))],
@@ -46,6 +49,39 @@ fn dl(items: Vec<(String, String)>) -> impl IntoView {
         <dl class="facts">
             {items.into_iter().map(|(k, v)| view! { <dt>{k}</dt><dd>{v}</dd> }).collect_view()}
         </dl>
+    }
+}
+
+/// Where the matrix came from: built by a route (drawn as its tree) or uploaded.
+fn provenance_view(p: &Value, catalogue: bool, order: u64) -> AnyView {
+    let kind = api::s(p, "kind").unwrap_or("");
+    let own = catalogue.then(
+        || view! { <p>{format!("This is the catalogue's own matrix of order {order}.")}</p> },
+    );
+    match kind {
+        "constructed" => {
+            let at = api::s(p, "constructed_at").unwrap_or("").to_string();
+            let tree = p
+                .get("recipe")
+                .and_then(|r| r.get("tree"))
+                .map(|t| node_view(t, order));
+            view! {
+                {own}
+                <p>{format!("Built and checked by this program{}, by this route (its recipe replays to the same matrix):", if at.is_empty() { String::new() } else { format!(" on {at}") })}</p>
+                {tree.map(|t| view! { <ul class="tree">{t}</ul> })}
+            }
+            .into_any()
+        }
+        "uploaded" => {
+            let at = api::s(p, "uploaded_at").unwrap_or("").to_string();
+            let f = api::s(p, "received_format").unwrap_or("").to_string();
+            view! {
+                {own}
+                <p>{format!("Uploaded on {at}{}, and checked by the server before it was stored.", if f.is_empty() { String::new() } else { format!(" as {f}") })}</p>
+            }
+            .into_any()
+        }
+        _ => view! { {own}{dl(facts_list(p))} }.into_any(),
     }
 }
 
@@ -72,8 +108,13 @@ pub fn Entry(id: String) -> impl IntoView {
         spawn_local(async move {
             let got = match api::get_bytes(&url).await {
                 Ok((200, bytes)) => {
-                    let opts = ReadOptions { format: Some(Format::Pm), ..ReadOptions::default() };
-                    formats::read(&bytes, &opts).map(|p| Arc::new(p.matrix)).map_err(|e| format!("the download could not be read: {e}"))
+                    let opts = ReadOptions {
+                        format: Some(Format::Pm),
+                        ..ReadOptions::default()
+                    };
+                    formats::read(&bytes, &opts)
+                        .map(|p| Arc::new(p.matrix))
+                        .map_err(|e| format!("the download could not be read: {e}"))
                 }
                 Ok((status, _)) => Err(format!("the download answered {status}")),
                 Err(e) => Err(e),
@@ -88,7 +129,11 @@ pub fn Entry(id: String) -> impl IntoView {
         spawn_local(async move {
             let clip = crate::app::window().navigator().clipboard();
             let ok = JsFuture::from(clip.write_text(&url)).await.is_ok();
-            copied.set(Some(if ok { "Copied the permanent link.".into() } else { "Could not copy; select the link above and copy it.".into() }));
+            copied.set(Some(if ok {
+                "Copied the permanent link.".into()
+            } else {
+                "Could not copy; select the link above and copy it.".into()
+            }));
         });
     };
 
@@ -126,7 +171,8 @@ pub fn Entry(id: String) -> impl IntoView {
                     .chain(props.get("excess").map(|e| ("excess".to_string(), api::plain(e))))
                     .collect();
                 let prov = b.get("provenance").cloned().unwrap_or(Value::Null);
-                let prov_line = provenance_words(Some(&prov));
+                let provenance = provenance_view(&prov, b.get("catalogue_entry").is_some_and(|e| !e.is_null()), order);
+                let invariant = b.get("invariant").and_then(|i| api::s(i, "kind")).map(|k| k.replace('_', " "));
                 let verification = b.get("verification").cloned().unwrap_or(Value::Null);
                 let order_link = format!("/orders/{order}");
                 let big = order > PICTURE_MAX_ORDER;
@@ -137,9 +183,9 @@ pub fn Entry(id: String) -> impl IntoView {
                         <p>"See "<a href=order_link>{format!("everything about order {order}")}</a>"."</p>
                         <h3>"Properties"</h3>
                         {dl(prop_items)}
+                        {invariant.map(|k| view! { <p class="help">{format!("Its invariant for telling matrices apart: the {k}, stored with it.")}</p> })}
                         <h3>"Provenance"</h3>
-                        {(!prov_line.is_empty()).then(|| view! { <p>{prov_line}</p> })}
-                        {dl(facts_list(&prov))}
+                        {provenance}
                         <h3>"Verification record"</h3>
                         {dl(facts_list(&verification))}
                     </section>

@@ -45,7 +45,9 @@ fn parse_lookup(text: &str, chosen: Kind) -> Result<String, String> {
     if digits.is_empty() {
         return Err("Type a whole number, such as 92, or a matrix id.".into());
     }
-    let Ok(n) = digits.parse::<u64>() else { return Err("That number is too large.".into()) };
+    let Ok(n) = digits.parse::<u64>() else {
+        return Err("That number is too large.".into());
+    };
     let kind = if t.contains("strat") {
         Kind::Strata
     } else if t.contains("dim") || t.contains("size") || t.starts_with('d') {
@@ -67,7 +69,10 @@ fn parse_lookup(text: &str, chosen: Kind) -> Result<String, String> {
 
 /// The lookup form.
 #[component]
-pub fn LookupForm(#[prop(optional)] initial: String, #[prop(optional)] compact: bool) -> impl IntoView {
+pub fn LookupForm(
+    #[prop(optional)] initial: String,
+    #[prop(optional)] compact: bool,
+) -> impl IntoView {
     let text = RwSignal::new(initial);
     let kind = RwSignal::new(Kind::Order);
     let problem = RwSignal::new(None::<String>);
@@ -117,8 +122,14 @@ pub fn LookupForm(#[prop(optional)] initial: String, #[prop(optional)] compact: 
 pub fn Home(query: Query) -> impl IntoView {
     let (initial, answer) = match query {
         Query::None => (String::new(), None),
-        Query::Dimension(d) => (format!("dimension {d}"), Some(view! { <DimensionAnswer d=d /> }.into_any())),
-        Query::Strata(k) => (format!("{k} strata"), Some(view! { <StrataAnswer k=k /> }.into_any())),
+        Query::Dimension(d) => (
+            format!("dimension {d}"),
+            Some(view! { <DimensionAnswer d=d /> }.into_any()),
+        ),
+        Query::Strata(k) => (
+            format!("{k} strata"),
+            Some(view! { <StrataAnswer k=k /> }.into_any()),
+        ),
     };
     let heading = match query {
         Query::None => "Look up a Hadamard matrix".to_string(),
@@ -219,13 +230,20 @@ fn StrataAnswer(k: u64) -> impl IntoView {
 }
 
 /// One node of a route tree, with its children.
-fn node_view(v: &Value, top: u64) -> AnyView {
+pub fn node_view(v: &Value, top: u64) -> AnyView {
     let method = api::s(v, "method").unwrap_or("").to_string();
     let order = api::u(v, "order").unwrap_or(0);
     let buildable = api::b(v, "buildable").unwrap_or(false);
     let reference = api::s(v, "reference").unwrap_or("").to_string();
-    let params = v.get("params").and_then(Value::as_object).cloned().unwrap_or_default();
-    let kind = params.get("kind").and_then(Value::as_str).map(str::to_string);
+    let params = v
+        .get("params")
+        .and_then(Value::as_object)
+        .cloned()
+        .unwrap_or_default();
+    let kind = params
+        .get("kind")
+        .and_then(Value::as_str)
+        .map(str::to_string);
     let size = if yields_matrix(&method) {
         if order != top && order > 2 {
             view! { <a class="order-link" href=format!("/orders/{order}")>{format!("order {order}")}</a> }.into_any()
@@ -248,7 +266,10 @@ fn node_view(v: &Value, top: u64) -> AnyView {
             (k.clone(), text)
         })
         .collect();
-    let children: Vec<AnyView> = api::arr(v, "children").iter().map(|c| node_view(c, top)).collect();
+    let children: Vec<AnyView> = api::arr(v, "children")
+        .iter()
+        .map(|c| node_view(c, top))
+        .collect();
     view! {
         <li class="node">
             <div class="step">
@@ -295,7 +316,10 @@ fn route_view(i: usize, r: &Value, n: u64) -> impl IntoView {
 fn properties_tags(p: Option<&Value>) -> impl IntoView {
     let names = ["normalized", "symmetric", "skew", "regular"];
     let on: Vec<&str> = match p {
-        Some(p) => names.into_iter().filter(|k| api::b(p, k) == Some(true)).collect(),
+        Some(p) => names
+            .into_iter()
+            .filter(|k| api::b(p, k) == Some(true))
+            .collect(),
         None => Vec::new(),
     };
     let excess = p.and_then(|p| p.get("excess")).and_then(Value::as_i64);
@@ -304,23 +328,6 @@ fn properties_tags(p: Option<&Value>) -> impl IntoView {
             {if on.is_empty() { "no special properties".to_string() } else { on.join(", ") }}
             {excess.map(|e| format!(" · excess {e}"))}
         </span>
-    }
-}
-
-/// Provenance in a few words, whatever shape the server gives it.
-pub fn provenance_words(v: Option<&Value>) -> String {
-    match v {
-        None | Some(Value::Null) => String::new(),
-        Some(Value::String(s)) => s.clone(),
-        Some(o) => {
-            let kind = api::s(o, "kind").or_else(|| api::s(o, "source")).unwrap_or("");
-            let method = api::s(o, "method").or_else(|| api::s(o, "route")).map(method_name);
-            match (kind, method) {
-                (_, Some(m)) => format!("built by {m}"),
-                ("", None) => String::new(),
-                (k, None) => k.to_string(),
-            }
-        }
     }
 }
 
@@ -347,7 +354,12 @@ fn StoredMatrices(n: u64) -> impl IntoView {
                             {items.into_iter().map(|m| {
                                 let id = api::s(&m, "id").unwrap_or_default().to_string();
                                 let short = format!("{}…", &id[..id.len().min(16)]);
-                                let prov = provenance_words(m.get("provenance"));
+                                let prov = match api::s(&m, "origin") {
+                                    Some("constructed") => "built by this program".to_string(),
+                                    Some("uploaded") => format!("uploaded {}", api::s(&m, "created_at").unwrap_or_default()),
+                                    Some(o) => o.to_string(),
+                                    None => String::new(),
+                                };
                                 view! {
                                     <li>
                                         <a class="id" href=format!("/m/{id}")>{short}</a>" "
@@ -394,7 +406,7 @@ pub fn OrderPage(n: u64) -> impl IntoView {
                             </p>
                         }
                     });
-                    let show_stored = words::order_possible(n) && status != "open";
+                    let show_stored = usize::try_from(n).is_ok_and(hadamard_core::verify::order_possible) && status != "open";
                     view! {
                         <p class="status-line" id="order-status" data-status=status.clone()>
                             {status_badge(&status)}" "<span>{status_sentence(&status, n)}</span>

@@ -24,7 +24,11 @@ const MARK_BLEND: f64 = 0.45;
 const SIDE: usize = 512;
 
 fn mix(a: [f64; 3], b: [f64; 3], t: f64) -> [f64; 3] {
-    [a[0] + (b[0] - a[0]) * t, a[1] + (b[1] - a[1]) * t, a[2] + (b[2] - a[2]) * t]
+    [
+        a[0] + (b[0] - a[0]) * t,
+        a[1] + (b[1] - a[1]) * t,
+        a[2] + (b[2] - a[2]) * t,
+    ]
 }
 
 /// What part of the matrix is on the canvas.
@@ -52,21 +56,44 @@ fn max_zoom(m: &Matrix) -> usize {
 
 fn clamp_view(m: &Matrix, v: View) -> View {
     let k = window_side(m, v.zoom);
-    View { zoom: v.zoom, row0: v.row0.min(m.rows().saturating_sub(k)), col0: v.col0.min(m.cols().saturating_sub(k)) }
+    View {
+        zoom: v.zoom,
+        row0: v.row0.min(m.rows().saturating_sub(k)),
+        col0: v.col0.min(m.cols().saturating_sub(k)),
+    }
 }
 
 /// Draws the window `v` of `m`: a square of pixels per entry, or a shaded pixel per block.
-fn draw(canvas: &web_sys::HtmlCanvasElement, m: &Matrix, marked: &[bool], cell: Option<(usize, usize)>, v: View) {
+fn draw(
+    canvas: &web_sys::HtmlCanvasElement,
+    m: &Matrix,
+    marked: &[bool],
+    cell: Option<(usize, usize)>,
+    v: View,
+) {
     let k = window_side(m, v.zoom);
     let vis_r = k.min(m.rows() - v.row0);
     let vis_c = k.min(m.cols() - v.col0);
-    let (block, scale) = if k <= SIDE { (1, (SIDE / k).max(1)) } else { (k.div_ceil(SIDE), 1) };
-    let (w, h) = if block == 1 { (vis_c * scale, vis_r * scale) } else { (vis_c.div_ceil(block), vis_r.div_ceil(block)) };
+    let (block, scale) = if k <= SIDE {
+        (1, (SIDE / k).max(1))
+    } else {
+        (k.div_ceil(SIDE), 1)
+    };
+    let (w, h) = if block == 1 {
+        (vis_c * scale, vis_r * scale)
+    } else {
+        (vis_c.div_ceil(block), vis_r.div_ceil(block))
+    };
     let mut data = vec![0u8; w * h * 4];
     let colour = |share: f64, mark: bool| {
         let c = mix(PLUS, MINUS, share);
         let c = if mark { mix(c, MARK, MARK_BLEND) } else { c };
-        [c[0].round() as u8, c[1].round() as u8, c[2].round() as u8, 255]
+        [
+            c[0].round() as u8,
+            c[1].round() as u8,
+            c[2].round() as u8,
+            255,
+        ]
     };
     if block == 1 {
         for r in 0..vis_r {
@@ -75,7 +102,11 @@ fn draw(canvas: &web_sys::HtmlCanvasElement, m: &Matrix, marked: &[bool], cell: 
             let px = [colour(0.0, mark), colour(1.0, mark)];
             for c in 0..vis_c {
                 let j = v.col0 + c;
-                let rgba = if cell == Some((i, j)) { [230, 57, 70, 255] } else { px[m.is_negative(i, j) as usize] };
+                let rgba = if cell == Some((i, j)) {
+                    [230, 57, 70, 255]
+                } else {
+                    px[m.is_negative(i, j) as usize]
+                };
                 for y in r * scale..(r + 1) * scale {
                     let line = y * w * 4;
                     for x in c * scale..(c + 1) * scale {
@@ -114,9 +145,15 @@ fn draw(canvas: &web_sys::HtmlCanvasElement, m: &Matrix, marked: &[bool], cell: 
     }
     canvas.set_width(w as u32);
     canvas.set_height(h as u32);
-    let Ok(Some(ctx)) = canvas.get_context("2d") else { return };
-    let Ok(ctx) = ctx.dyn_into::<web_sys::CanvasRenderingContext2d>() else { return };
-    if let Ok(img) = web_sys::ImageData::new_with_u8_clamped_array_and_sh(Clamped(&data), w as u32, h as u32) {
+    let Ok(Some(ctx)) = canvas.get_context("2d") else {
+        return;
+    };
+    let Ok(ctx) = ctx.dyn_into::<web_sys::CanvasRenderingContext2d>() else {
+        return;
+    };
+    if let Ok(img) =
+        web_sys::ImageData::new_with_u8_clamped_array_and_sh(Clamped(&data), w as u32, h as u32)
+    {
         let _ = ctx.put_image_data(&img, 0.0, 0.0);
     }
 }
@@ -131,7 +168,11 @@ pub fn MatrixPicture(
     label: String,
 ) -> impl IntoView {
     let canvas = NodeRef::<Canvas>::new();
-    let view_sig = RwSignal::new(View { zoom: 1, row0: 0, col0: 0 });
+    let view_sig = RwSignal::new(View {
+        zoom: 1,
+        row0: 0,
+        col0: 0,
+    });
     let mut mask = vec![false; matrix.rows()];
     for &r in &marked {
         if let Some(x) = mask.get_mut(r) {
@@ -157,7 +198,14 @@ pub fn MatrixPicture(
                 // Keep the centre where it is.
                 let cr = v.row0 + old_k / 2;
                 let cc = v.col0 + old_k / 2;
-                *v = clamp_view(&m, View { zoom: z, row0: cr.saturating_sub(new_k / 2), col0: cc.saturating_sub(new_k / 2) });
+                *v = clamp_view(
+                    &m,
+                    View {
+                        zoom: z,
+                        row0: cr.saturating_sub(new_k / 2),
+                        col0: cc.saturating_sub(new_k / 2),
+                    },
+                );
             })
         }
     };
@@ -167,7 +215,14 @@ pub fn MatrixPicture(
             view_sig.update(|v| {
                 let r = (v.row0 as isize + dr).max(0) as usize;
                 let c = (v.col0 as isize + dc).max(0) as usize;
-                *v = clamp_view(&m, View { zoom: v.zoom, row0: r, col0: c });
+                *v = clamp_view(
+                    &m,
+                    View {
+                        zoom: v.zoom,
+                        row0: r,
+                        col0: c,
+                    },
+                );
             })
         }
     };
@@ -213,8 +268,12 @@ pub fn MatrixPicture(
     let drag = StoredValue::new(None::<(i32, i32, View)>);
     let m_drag = m.clone();
     let on_move = move |ev: web_sys::PointerEvent| {
-        let Some((x0, y0, v0)) = drag.get_value() else { return };
-        let Some(c) = canvas.get_untracked() else { return };
+        let Some((x0, y0, v0)) = drag.get_value() else {
+            return;
+        };
+        let Some(c) = canvas.get_untracked() else {
+            return;
+        };
         let css = c.client_width().max(1) as f64;
         let k = window_side(&m_drag, v0.zoom) as f64;
         let per_px = k / css;
@@ -222,11 +281,22 @@ pub fn MatrixPicture(
         let dr = ((y0 - ev.client_y()) as f64 * per_px).round() as isize;
         let r = (v0.row0 as isize + dr).max(0) as usize;
         let cc = (v0.col0 as isize + dc).max(0) as usize;
-        view_sig.set(clamp_view(&m_drag, View { zoom: v0.zoom, row0: r, col0: cc }));
+        view_sig.set(clamp_view(
+            &m_drag,
+            View {
+                zoom: v0.zoom,
+                row0: r,
+                col0: cc,
+            },
+        ));
     };
     let on_down = move |ev: web_sys::PointerEvent| {
         if view_sig.get_untracked().zoom > 1 {
-            drag.set_value(Some((ev.client_x(), ev.client_y(), view_sig.get_untracked())));
+            drag.set_value(Some((
+                ev.client_x(),
+                ev.client_y(),
+                view_sig.get_untracked(),
+            )));
             if let Some(c) = canvas.get_untracked() {
                 let _ = c.set_pointer_capture(ev.pointer_id());
             }
@@ -253,11 +323,11 @@ pub fn MatrixPicture(
                 on:pointercancel=on_up
             ></canvas>
             <figcaption>
-                <span class="zoom" role="group" aria-label="Zoom">
+                <span class="zoom" role="group" aria-label="Zoom" hidden={zmax == 1}>
                     <button type="button" on:click=move |_| zo((view_sig.get_untracked().zoom / 2).max(1))
                         disabled=move || view_sig.get().zoom == 1 aria-label="Zoom out">"−"</button>
                     <button type="button" on:click=move |_| zi((view_sig.get_untracked().zoom * 2).min(zmax))
-                        disabled=move || view_sig.get().zoom >= zmax aria-label="Zoom in">"+"</button>
+                        disabled=move || { view_sig.get().zoom >= zmax } aria-label="Zoom in">"+"</button>
                     <button type="button" on:click=move |_| zr(1) disabled=move || !zoomed()>"Whole matrix"</button>
                 </span>
                 <span class="caption" aria-live="polite">{caption}</span>

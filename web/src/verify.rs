@@ -28,7 +28,8 @@ const PAIRS_SHOWN: usize = 12;
 const SLICE_MS: f64 = 25.0;
 
 /// Sylvester's matrix of order 8, for the "try an example" button.
-const EXAMPLE: &str = "++++++++\n+-+-+-+-\n++--++--\n+--++--+\n++++----\n+-+--+-+\n++----++\n+--+-++-\n";
+const EXAMPLE: &str =
+    "++++++++\n+-+-+-+-\n++--++--\n+--++--+\n++++----\n+-+--+-+\n++----++\n+--+-++-\n";
 
 /// The input, as the person gave it: these exact bytes are what "Publish" sends.
 #[derive(Clone)]
@@ -41,7 +42,12 @@ struct Source {
 #[derive(Clone)]
 enum Fix {
     /// One wrong sign, 0-based.
-    Sign { row: usize, col: usize, id: String, corrected: Arc<Matrix> },
+    Sign {
+        row: usize,
+        col: usize,
+        id: String,
+        corrected: Arc<Matrix>,
+    },
     /// The erased entries have exactly one Hadamard completion.
     Completed { id: String, corrected: Arc<Matrix> },
 }
@@ -57,6 +63,8 @@ struct Outcome {
     fix: Option<Fix>,
     matrix: Arc<Matrix>,
     marked: Vec<usize>,
+    /// Time to read the input, and to check it, in milliseconds.
+    read_ms: f64,
     millis: f64,
 }
 
@@ -73,14 +81,22 @@ enum Phase {
 enum Publish {
     Idle,
     Sending,
-    Stored { id: String, url: String, existed: bool, similar: Vec<String> },
+    Stored {
+        id: String,
+        url: String,
+        existed: bool,
+        similar: Vec<String>,
+        note: Option<String>,
+    },
     Refused(String),
 }
 
 /// Which rows to point out: the one row every listed pair shares, else every listed row.
 fn marked_rows(r: &Report) -> Vec<usize> {
     let pairs = &r.failing_pairs;
-    let Some(first) = pairs.first() else { return Vec::new() };
+    let Some(first) = pairs.first() else {
+        return Vec::new();
+    };
     for c in [first.i, first.j] {
         if pairs.len() > 1 && pairs.iter().all(|p| p.i == c || p.j == c) {
             return vec![c];
@@ -104,11 +120,22 @@ fn completion_words(c: &Completion) -> String {
 
 /// Reads and checks `bytes`, yielding to the page between slices; gives up quietly when
 /// `still_wanted` turns false (a newer input arrived).
-async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phase>, still_wanted: impl Fn() -> bool) {
+async fn check(
+    bytes: Arc<Vec<u8>>,
+    format: Option<Format>,
+    phase: RwSignal<Phase>,
+    still_wanted: impl Fn() -> bool,
+) {
     phase.set(Phase::Reading);
     next_tick().await;
-    let opts = ReadOptions { format, ..ReadOptions::default() };
-    let parsed = match formats::read(&bytes, &opts) {
+    let opts = ReadOptions {
+        format,
+        ..ReadOptions::default()
+    };
+    let read_start = now_ms();
+    let parsed = formats::read(&bytes, &opts);
+    let read_ms = now_ms() - read_start;
+    let parsed = match parsed {
         Ok(p) => p,
         Err(e) => {
             phase.set(Phase::Malformed(e.to_string()));
@@ -142,6 +169,8 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
     }
     let report = progressive.finish();
     let millis = now_ms() - start;
+    // The id and properties were a pass of their own; let the page breathe before drawing.
+    next_tick().await;
     let erasures = parsed.erasures.len();
     let hadamard = report.hadamard && erasures == 0;
     let mut fix = None;
@@ -152,11 +181,19 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
         let c = repair::complete(&m, &parsed.erasures, repair::CompletionLimits::default());
         completion = Some(completion_words(&c));
         if let Completion::Unique { id, matrix } = c {
-            fix = Some(Fix::Completed { id, corrected: Arc::new(matrix.into_matrix()) });
+            fix = Some(Fix::Completed {
+                id,
+                corrected: Arc::new(matrix.into_matrix()),
+            });
         }
     } else if !hadamard {
         if let Some(r) = repair::single_wrong_entry(&m, &report) {
-            fix = Some(Fix::Sign { row: r.row, col: r.col, id: r.corrected_id, corrected: Arc::new(r.corrected.into_matrix()) });
+            fix = Some(Fix::Sign {
+                row: r.row,
+                col: r.col,
+                id: r.corrected_id,
+                corrected: Arc::new(r.corrected.into_matrix()),
+            });
         }
     }
     let marked = match &fix {
@@ -175,12 +212,15 @@ async fn check(bytes: Arc<Vec<u8>>, format: Option<Format>, phase: RwSignal<Phas
         fix,
         matrix: Arc::new(m),
         marked,
+        read_ms,
         millis,
     }));
 }
 
 async fn read_file(file: web_sys::File) -> Result<Vec<u8>, String> {
-    let buf = JsFuture::from(file.array_buffer()).await.map_err(|_| format!("{} could not be read", file.name()))?;
+    let buf = JsFuture::from(file.array_buffer())
+        .await
+        .map_err(|_| format!("{} could not be read", file.name()))?;
     Ok(js_sys::Uint8Array::new(&buf).to_vec())
 }
 
@@ -192,32 +232,18 @@ fn size_words(bytes: usize) -> String {
     }
 }
 
-fn similar_ids(body: &Value) -> Vec<String> {
-    let v = body.get("possibly_equivalent").or_else(|| body.get("possibly_equivalent_to")).or_else(|| body.get("equivalent"));
-    let mut out = Vec::new();
-    match v {
-        Some(Value::Array(items)) => {
-            for it in items {
-                match it {
-                    Value::String(s) => out.push(s.clone()),
-                    Value::Object(_) => {
-                        if let Some(id) = api::s(it, "id") {
-                            out.push(id.to_string());
-                        }
-                    }
-                    _ => {}
-                }
-            }
-        }
-        Some(Value::String(s)) => out.push(s.clone()),
-        Some(Value::Object(_)) => {
-            if let Some(id) = v.and_then(|o| api::s(o, "id")) {
-                out.push(id.to_string());
-            }
-        }
-        _ => {}
-    }
-    out
+/// The ids the server found possibly equivalent (same invariant), and its note about them.
+fn equivalence_of(body: &Value) -> (Vec<String>, Option<String>) {
+    let e = body.get("equivalence").unwrap_or(&Value::Null);
+    let ids = api::arr(e, "possibly_equivalent_to")
+        .iter()
+        .filter_map(|v| {
+            v.as_str()
+                .map(str::to_string)
+                .or_else(|| api::s(v, "id").map(str::to_string))
+        })
+        .collect();
+    (ids, api::s(e, "note").map(str::to_string))
 }
 
 /// The verify screen: input, progress, verdict, picture, repairs, publishing.
@@ -240,17 +266,25 @@ pub fn VerifyPanel(
         let f = format.get_untracked().parse::<Format>().ok();
         source.set(Some(src.clone()));
         publish.set(Publish::Idle);
-        spawn_local(check(src.bytes, f, phase, move || generation.get_value() == mine));
+        spawn_local(check(src.bytes, f, phase, move || {
+            generation.get_value() == mine
+        }));
     };
     let run_text = move || {
         let t = text.get_untracked();
-        run(Source { bytes: Arc::new(t.into_bytes()), name: "the pasted text".into() });
+        run(Source {
+            bytes: Arc::new(t.into_bytes()),
+            name: "the pasted text".into(),
+        });
     };
     let run_file = move |file: web_sys::File| {
         spawn_local(async move {
             let name = file.name();
             match read_file(file).await {
-                Ok(bytes) => run(Source { bytes: Arc::new(bytes), name }),
+                Ok(bytes) => run(Source {
+                    bytes: Arc::new(bytes),
+                    name,
+                }),
                 Err(e) => phase.set(Phase::Malformed(e)),
             }
         });
@@ -265,7 +299,11 @@ pub fn VerifyPanel(
     let on_drop = move |ev: web_sys::DragEvent| {
         ev.prevent_default();
         dragging.set(false);
-        if let Some(file) = ev.data_transfer().and_then(|d| d.files()).and_then(|fs| fs.get(0)) {
+        if let Some(file) = ev
+            .data_transfer()
+            .and_then(|d| d.files())
+            .and_then(|fs| fs.get(0))
+        {
             run_file(file);
         }
     };
@@ -273,20 +311,36 @@ pub fn VerifyPanel(
         let pm = m.canonical_text();
         text.set(pm.clone());
         format.set("auto".into());
-        run(Source { bytes: Arc::new(pm.into_bytes()), name: "the corrected matrix".into() });
+        run(Source {
+            bytes: Arc::new(pm.into_bytes()),
+            name: "the corrected matrix".into(),
+        });
     };
     let do_publish = move || {
-        let Some(src) = source.get_untracked() else { return };
+        let Some(src) = source.get_untracked() else {
+            return;
+        };
         publish.set(Publish::Sending);
         spawn_local(async move {
             let answer = api::post_bytes("/api/matrices", &src.bytes).await;
             publish.set(match answer {
                 Ok(r) if r.status == 200 || r.status == 201 => {
                     let id = api::s(&r.body, "id").unwrap_or_default().to_string();
-                    let url = api::s(&r.body, "url").map(str::to_string).unwrap_or_else(|| format!("/m/{id}"));
-                    Publish::Stored { existed: r.status == 200, similar: similar_ids(&r.body).into_iter().filter(|s| *s != id).collect(), id, url }
+                    let url = api::s(&r.body, "url")
+                        .map(str::to_string)
+                        .unwrap_or_else(|| format!("/m/{id}"));
+                    let (similar, note) = equivalence_of(&r.body);
+                    Publish::Stored {
+                        existed: r.status == 200,
+                        similar: similar.into_iter().filter(|s| *s != id).collect(),
+                        note,
+                        id,
+                        url,
+                    }
                 }
-                Ok(r) if r.status == 413 => Publish::Refused("The file is larger than the server accepts.".into()),
+                Ok(r) if r.status == 413 => {
+                    Publish::Refused("The file is larger than the server accepts.".into())
+                }
                 Ok(r) => Publish::Refused(format!("The server refused it: {}", r.error())),
                 Err(e) => Publish::Refused(format!("Not published: {e}.")),
             });
@@ -297,6 +351,13 @@ pub fn VerifyPanel(
         Phase::Done(o) if o.hadamard => Some("hadamard"),
         Phase::Done(_) => Some("not-hadamard"),
         Phase::Malformed(_) => Some("error"),
+        _ => None,
+    };
+    let timing = move |which: u8| match phase.get() {
+        Phase::Done(o) => Some(format!(
+            "{:.1}",
+            if which == 0 { o.read_ms } else { o.millis }
+        )),
         _ => None,
     };
     let verdict_class = move || match verdict_attr() {
@@ -358,7 +419,8 @@ pub fn VerifyPanel(
                 </div>
             </div>
 
-            <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr>
+            <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr
+                data-read-ms=move || timing(0) data-check-ms=move || timing(1)>
                 {move || match phase.get() {
                     Phase::Idle => view! { <p class="waiting">"No matrix checked yet."</p> }.into_any(),
                     Phase::Reading => view! { <p class="waiting">"Reading…"</p> }.into_any(),
@@ -395,7 +457,7 @@ pub fn VerifyPanel(
                                 Publish::Idle => ().into_any(),
                                 Publish::Sending => view! { <p>"Sending…"</p> }.into_any(),
                                 Publish::Refused(msg) => view! { <p class="bad" id="publish-error">{msg}</p> }.into_any(),
-                                Publish::Stored { id, url, existed, similar } => {
+                                Publish::Stored { id, url, existed, similar, note } => {
                                     let href = format!("/m/{id}");
                                     let full = absolute(&url);
                                     view! {
@@ -410,9 +472,10 @@ pub fn VerifyPanel(
                                                     let short = format!("{}…", &s[..s.len().min(12)]);
                                                     view! { <a href=h class="id">{short}</a>" " }
                                                 }).collect_view()}
-                                                "(same order and invariants; equivalence is not proved)."
+                                                "(they share its invariant, which does not prove equivalence)."
                                             </p>
                                         })}
+                                        {note.map(|n| view! { <p class="help" id="equivalence-note">{format!("Equivalence: {n}.")}</p> })}
                                         <p><a href=href class="button">"Open its page"</a></p>
                                     }.into_any()
                                 }
@@ -436,10 +499,18 @@ pub fn absolute(url: &str) -> String {
 }
 
 #[component]
-fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy + 'static) -> impl IntoView {
+fn Verdict(
+    o: Outcome,
+    name: String,
+    use_corrected: impl Fn(Arc<Matrix>) + Copy + 'static,
+) -> impl IntoView {
     let r = o.report.clone();
     let n = r.order;
-    let shape = if r.order == r.cols { format!("order {n}") } else { format!("{}×{}", r.order, r.cols) };
+    let shape = if r.order == r.cols {
+        format!("order {n}")
+    } else {
+        format!("{}×{}", r.order, r.cols)
+    };
     let headline = if o.hadamard {
         format!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {n}·I).")
     } else {
@@ -501,11 +572,20 @@ fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy 
         .into_any(),
     });
     let p = &r.properties;
-    let props: Vec<&str> = [(p.normalized, "normalized"), (p.symmetric, "symmetric"), (p.skew, "skew"), (p.regular, "regular")]
-        .into_iter()
-        .filter_map(|(on, name)| on.then_some(name))
-        .collect();
-    let props = if props.is_empty() { "none of normalized, symmetric, skew, regular".to_string() } else { props.join(", ") };
+    let props: Vec<&str> = [
+        (p.normalized, "normalized"),
+        (p.symmetric, "symmetric"),
+        (p.skew, "skew"),
+        (p.regular, "regular"),
+    ]
+    .into_iter()
+    .filter_map(|(on, name)| on.then_some(name))
+    .collect();
+    let props = if props.is_empty() {
+        "none of normalized, symmetric, skew, regular".to_string()
+    } else {
+        props.join(", ")
+    };
     let label = format!("Picture of the matrix, {shape}: light squares are +1, dark squares −1.");
     let cell = match &o.fix {
         Some(Fix::Sign { row, col, .. }) => Some((*row, *col)),
@@ -522,7 +602,7 @@ fn Verdict(o: Outcome, name: String, use_corrected: impl Fn(Arc<Matrix>) + Copy 
             <dt>"Read as"</dt><dd>{o.format.name()}</dd>
             <dt>"Id"</dt><dd><code class="id" id="local-id">{r.sha256.clone()}</code></dd>
             <dt>"Properties"</dt><dd>{format!("{props} (excess {})", p.excess)}</dd>
-            <dt>"Check"</dt><dd>{format!("{}, in this browser, {:.0} ms", r.check, o.millis)}</dd>
+            <dt>"Check"</dt><dd>{format!("{}, in this browser: read in {:.0} ms, checked in {:.0} ms", r.check, o.read_ms, o.millis)}</dd>
         </dl>
         {small_enough.then(|| view! { <MatrixPicture matrix=o.matrix.clone() marked=o.marked.clone() cell=cell label=label /> })}
     }

@@ -43,11 +43,6 @@ pub fn nearest_orders(n: u64) -> (Option<u64>, u64) {
     (below.filter(|&b| b > 0), above)
 }
 
-/// True for 1, 2 and multiples of 4.
-pub fn order_possible(n: u64) -> bool {
-    n == 1 || n == 2 || (n > 0 && n % 4 == 0)
-}
-
 /// A construction's name, as its papers call it, from the API's snake_case method name.
 pub fn method_name(method: &str) -> String {
     let known = match method {
