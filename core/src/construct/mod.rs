@@ -73,7 +73,8 @@ pub use paley::{
 pub use skew::skew_double;
 pub use sylvester::sylvester;
 pub use t_sequences::{
-    base_to_t, golay_doubling, golay_product, golay_to_t, t_sequences, turyn_to_base,
+    base_to_t, golay_doubling, golay_pairs_to_base, golay_product, golay_to_t, t_sequences,
+    turyn_to_base,
 };
 pub use turyn_williamson::turyn_williamson;
 pub use twin_prime::twin_prime_power;

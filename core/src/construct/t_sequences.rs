@@ -21,6 +21,10 @@
 //! - **Golay pair (A, B) of length g** (derived here) gives T-sequences of length g
 //!   (½(A+B), ½(A−B), 0, 0), of length g + 1 ((½(A+B), 0), (½(A−B), 0), (0…0, 1), 0), and of
 //!   length 2g + 1 through BS(g+1, g) = (A‖1, A‖−1, B, B), whose sum is 2(N_A + N_B) = 0.
+//! - **Two Golay pairs → base sequences** (derived from items 9 and 11): pairs (A, B) of length
+//!   g₁ and (C, D) of length g₂ ≤ g₁ are base sequences BS(g₁, g₂), since N_A + N_B = 0 and
+//!   N_C + N_D = 0 separately; so they give T-sequences of length g₁ + g₂ through the map above
+//!   (which needs only N_A + N_B + N_C + N_D = 0, whatever p is).
 //! - **Golay doubling** (Golay, "Complementary series", IRE Trans. Inform. Theory 7, 1961
 //!   \[recalled\]):
 //!   (A‖B, A‖−B) is a Golay pair of length 2g.
@@ -127,6 +131,18 @@ pub fn golay_to_t(g: &GolayPair) -> Vec<TSequences> {
     vec![length_g, length_g1, base_to_t(&bs)]
 }
 
+/// Base sequences BS(g₁, g₂) from Golay pairs of lengths g₁ and g₂ (the longer pair first,
+/// whichever order they are given in); with [`base_to_t`], T-sequences of length g₁ + g₂.
+pub fn golay_pairs_to_base(x: &GolayPair, y: &GolayPair) -> BaseSequences {
+    let (long, short) = if x.len() >= y.len() { (x, y) } else { (y, x) };
+    BaseSequences {
+        a: long.a.clone(),
+        b: long.b.clone(),
+        c: short.a.clone(),
+        d: short.b.clone(),
+    }
+}
+
 /// Golay's doubling: (A‖B, A‖−B), of length 2g.
 pub fn golay_doubling(g: &GolayPair) -> GolayPair {
     GolayPair {
@@ -216,6 +232,21 @@ mod tests {
                 assert!(t.is_valid());
                 assert_eq!(t_sequences(t).unwrap().order(), 4 * t.len());
             }
+        }
+    }
+
+    #[test]
+    fn two_golay_pairs_give_t_sequences_of_the_summed_length() {
+        let g2 = pair("++", "+-");
+        let g10 = search_golay(10);
+        let g20 = golay_product(&g2, &g10);
+        for (x, y) in [(&g10, &g2), (&g2, &g10), (&g10, &g10), (&g20, &g10)] {
+            let bs = golay_pairs_to_base(x, y);
+            assert!(bs.is_valid());
+            let t = base_to_t(&bs);
+            assert!(t.is_valid());
+            assert_eq!(t.len(), x.len() + y.len());
+            assert_eq!(t_sequences(&t).unwrap().order(), 4 * t.len());
         }
     }
 

@@ -43,6 +43,7 @@ pub(crate) fn implemented(method: Method, params: &BTreeMap<String, Value>) -> b
         | Method::CooperWallis
         | Method::SkewDoubling
         | Method::GolayToT
+        | Method::GolayPairsToBase
         | Method::BaseToT
         | Method::TurynToBase
         | Method::GolayProduct
@@ -451,6 +452,12 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
                 Built::TSeq(ts.swap_remove(part))
             }
             [x] => return Err(wrong(&x)),
+        },
+        Method::GolayPairsToBase => match children::<2>(s)? {
+            [Built::Golay(a), Built::Golay(b)] => {
+                Built::Base(construct::t_sequences::golay_pairs_to_base(&a, &b))
+            }
+            [x, y] => return Err(wrong(if matches!(x, Built::Golay(_)) { &y } else { &x })),
         },
         Method::BaseToT => match children::<1>(s)? {
             [Built::Base(b)] => Built::TSeq(construct::t_sequences::base_to_t(&b)),

@@ -95,6 +95,8 @@ pub enum Method {
     GolayDoubling,
     /// T-sequences of length g, g+1 or 2g+1 from a Golay pair of length g.
     GolayToT,
+    /// Base sequences BS(g₁, g₂) from Golay pairs of lengths g₁ ≥ g₂ (so T-length g₁ + g₂).
+    GolayPairsToBase,
     /// T-sequences of length 2n+p from base sequences BS(n+p, n).
     BaseToT,
     /// Base sequences BS(2n−1, n) from Turyn-type sequences TT(n).

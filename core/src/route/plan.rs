@@ -32,6 +32,7 @@ pub(crate) mod refs {
     pub const GOLAY_LENGTHS: &str = "Golay pairs of every length 2^a·10^b·26^c: Turyn, J. Combin. Theory A 16 (1974); Jedwab and Parker, J. Combin. Des. 17 (2009)";
     pub const GOLAY_TO_T: &str = "T-sequences of lengths g, g+1 and 2g+1 from a Golay pair of length g (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
     pub const BASE_TO_T: &str = "T-sequences of length 2n+p from base sequences BS(n+p, n) (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
+    pub const GOLAY_PAIRS_TO_BASE: &str = "Golay pairs of lengths g₁ ≥ g₂ are base sequences BS(g₁, g₂), so T-sequences of length g₁ + g₂ [derived from constructions.md §2 items 9 and 11; checked in construct::t_sequences]";
     pub const TURYN_TO_BASE: &str = "BS(2n−1, n) = (C;D, C;−D, A, B) from TT(n): Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
     pub const TT_KNOWN: &str = "Turyn-type sequences TT(n) exist for every even n ≤ 38: Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
     pub const TT36: &str = "TT(36): Kharaghani and Tayfeh-Rezaie, J. Combin. Des. 13 (2005)";
@@ -341,6 +342,26 @@ fn is_published_golay_length(g: u64) -> bool {
     };
     let (x, y, z) = (val(2), val(5), val(13));
     g > 0 && rest == 1 && x >= y + z
+}
+
+/// Every g ≤ max of the form 2^a·10^b·26^c, ascending (a few hundred even for max = 10¹²).
+fn published_golay_lengths(max: u64) -> Vec<u64> {
+    let mut out = Vec::new();
+    let mut p10 = 1u64;
+    while p10 <= max {
+        let mut p26 = p10;
+        while p26 <= max {
+            let mut g = p26;
+            while g <= max {
+                out.push(g);
+                g *= 2;
+            }
+            p26 = p26.saturating_mul(26);
+        }
+        p10 = p10.saturating_mul(10);
+    }
+    out.sort_unstable();
+    out
 }
 
 /// The planner: memoised best routes per order. Reuse one for many questions.
@@ -857,6 +878,32 @@ impl Planner {
                     refs::GOLAY_TO_T,
                     vec![gs],
                 ));
+            }
+        }
+        // Two Golay pairs g₁ ≥ g₂ with g₁ + g₂ = t, as base sequences BS(g₁, g₂), when nothing
+        // above is buildable.
+        if !cands.iter().any(|c| c.buildable) {
+            for g1 in published_golay_lengths(t).into_iter().rev() {
+                let g2 = t - g1;
+                if g2 > g1 || !is_published_golay_length(g2) {
+                    continue;
+                }
+                let (Some(a), Some(b)) = (self.golay_source(g1), self.golay_source(g2)) else {
+                    continue;
+                };
+                let base = step(
+                    Method::GolayPairsToBase,
+                    g1,
+                    vec![("g1", json!(g1)), ("g2", json!(g2))],
+                    refs::GOLAY_PAIRS_TO_BASE,
+                    vec![a, b],
+                );
+                let t_seq = step(Method::BaseToT, t, vec![], refs::BASE_TO_T, vec![base]);
+                let done = t_seq.buildable;
+                cands.push(t_seq);
+                if done {
+                    break;
+                }
             }
         }
         cands.sort_by_key(|s| {
