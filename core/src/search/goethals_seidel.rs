@@ -37,11 +37,7 @@ pub struct GsSearch {
 }
 
 /// A unit: a decomposition and a range of its outer sequences.
-pub struct Unit {
-    decomposition: usize,
-    from: usize,
-    to: usize,
-}
+pub type Unit = super::SliceUnit;
 
 fn least_image(v: usize, bits: u64) -> u64 {
     let full = if v == 64 { u64::MAX } else { (1u64 << v) - 1 };
@@ -239,24 +235,11 @@ impl Search for GsSearch {
     }
 
     fn units(&self) -> Vec<Unit> {
-        let mut out = Vec::new();
-        for (k, d) in self.decompositions.iter().enumerate() {
-            if d.rows.iter().any(|r| r.is_empty()) {
-                continue;
-            }
-            let n = d.rows[d.outer[0]].len();
-            let step = n.div_ceil(256).max(1);
-            let mut from = 0;
-            while from < n {
-                out.push(Unit {
-                    decomposition: k,
-                    from,
-                    to: (from + step).min(n),
-                });
-                from += step;
-            }
-        }
-        out
+        super::slice_units(
+            self.decompositions
+                .iter()
+                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.rows[d.outer[0]].len())),
+        )
     }
 
     fn run_unit(&self, u: &Unit) -> Vec<String> {

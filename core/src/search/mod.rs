@@ -242,6 +242,30 @@ pub fn run_to_end<S: Search>(search: &S, limit: Option<usize>) -> Vec<String> {
 /// Merges the results of several shards (or several runs): the sorted, de-duplicated union.
 /// For searches that report classes, each result is already a canonical representative, so
 /// the union is the list of classes.
+/// A unit of work for the searches that split by decomposition: one decomposition (of 4m
+/// or 4v into four squares) and a range of its outer rows.
+pub struct SliceUnit {
+    pub(crate) decomposition: usize,
+    pub(crate) from: usize,
+    pub(crate) to: usize,
+}
+
+/// Splits each decomposition's `len` outer rows into at most 256 ranges, in order. A length
+/// of `None` skips the decomposition (it has an empty row list, so no solution).
+pub(crate) fn slice_units(lens: impl IntoIterator<Item = Option<usize>>) -> Vec<SliceUnit> {
+    let mut out = Vec::new();
+    for (decomposition, n) in lens.into_iter().enumerate() {
+        let Some(n) = n else { continue };
+        let step = n.div_ceil(256).max(1);
+        let mut from = 0;
+        while from < n {
+            out.push(SliceUnit { decomposition, from, to: (from + step).min(n) });
+            from += step;
+        }
+    }
+    out
+}
+
 pub fn merge<I: IntoIterator<Item = String>>(parts: I) -> Vec<String> {
     parts
         .into_iter()

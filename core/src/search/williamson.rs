@@ -72,11 +72,7 @@ struct Decomposition {
 }
 
 /// A unit: one decomposition and a range of its outer rows.
-pub struct Unit {
-    decomposition: usize,
-    from: usize,
-    to: usize,
-}
+pub type Unit = super::SliceUnit;
 
 fn mask(h: usize) -> u64 {
     if h == 0 {
@@ -403,24 +399,9 @@ impl Search for WilliamsonSearch {
     }
 
     fn units(&self) -> Vec<Unit> {
-        let mut out = Vec::new();
-        for (k, d) in self.decompositions.iter().enumerate() {
-            let n = d.leaders.len();
-            if d.rows.iter().any(|r| r.is_empty()) {
-                continue;
-            }
-            let step = n.div_ceil(256).max(1);
-            let mut from = 0;
-            while from < n {
-                out.push(Unit {
-                    decomposition: k,
-                    from,
-                    to: (from + step).min(n),
-                });
-                from += step;
-            }
-        }
-        out
+        super::slice_units(
+            self.decompositions.iter().map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.leaders.len())),
+        )
     }
 
     fn run_unit(&self, u: &Unit) -> Vec<String> {
