@@ -466,16 +466,7 @@ fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>) -> ExitCode {
         eprintln!("error: an input line is not a valid seed entry: {bad}");
         return ExitCode::from(2);
     }
-    if json {
-        println!(
-            "{}",
-            serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default()
-        );
-    } else {
-        for l in &lines {
-            println!("{l}");
-        }
-    }
+    print_results(&lines, json);
     eprintln!(
         "merged {} file(s): {} distinct result(s)",
         files.len(),
@@ -540,16 +531,7 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
         eprintln!("error: a product failed the identity (a bug): {bad}");
         return ExitCode::from(2);
     }
-    if common.json {
-        println!(
-            "{}",
-            serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default()
-        );
-    } else {
-        for l in &lines {
-            println!("{l}");
-        }
-    }
+    print_results(&lines, common.json);
     eprintln!("built {} Golay pair(s) of new lengths ≤ {max}", lines.len());
     if let Some(p) = &common.append_to {
         if let Err(e) = append_new(p, &lines) {
@@ -558,4 +540,15 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
         }
     }
     ExitCode::SUCCESS
+}
+
+/// Prints result lines: one seed-catalogue line each, or `{"results": [...]}` with `--json`.
+fn print_results(lines: &[String], json: bool) {
+    if json {
+        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+    } else {
+        for l in lines {
+            println!("{l}");
+        }
+    }
 }
