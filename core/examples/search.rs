@@ -71,6 +71,18 @@ fn main() {
             limit,
         ),
         "gs" => run_to_end(&goethals_seidel::GsSearch::new(p), limit),
+        // `gs-multiplier V G [LIMIT]`: quadruples fixed by the multipliers ⟨G⟩ mod V.
+        "gs-multiplier" => {
+            let g: usize = args[3].parse().expect("G");
+            let limit = args.get(4).and_then(|x| x.parse().ok()).filter(|&l| l > 0);
+            let s = goethals_seidel::GsSearch::with_multiplier(p, g).unwrap_or_else(|e| panic!("{e}"));
+            eprintln!("{} orbits", s.degrees_of_freedom());
+            run_to_end(&s, limit)
+        }
+        "gs-multipliers" => goethals_seidel::multiplier_choices(p, 30)
+            .into_iter()
+            .map(|(g, h, k)| format!("multiplier {g}: group of {h}, {k} orbits"))
+            .collect(),
         k => panic!("unknown search {k}"),
     };
     let how = match limit {

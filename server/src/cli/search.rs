@@ -78,11 +78,16 @@ enum Kind {
         common: Common,
     },
     /// Goethals–Seidel quadruples: four ±1 sequences of length v, periodic autocorrelations
-    /// summing to 0; order 4v.
+    /// summing to 0; order 4v. Every one for v ≤ 40; with --multiplier, those fixed by a group
+    /// of multipliers, for much longer v (symmetric ones are reported as Williamson quadruples).
     Gs {
         /// The length v.
         #[arg(long)]
         v: usize,
+        /// Search only sequences fixed by the multipliers ⟨G⟩ mod v (aᵢ = a_{Gi}). Without it,
+        /// v > 40 lists the groups that can be searched.
+        #[arg(long, value_name = "G")]
+        multiplier: Option<usize>,
         #[command(flatten)]
         what: What,
         #[command(flatten)]
@@ -194,8 +199,33 @@ pub fn run(args: SearchArgs) -> ExitCode {
             let s = aperiodic::AperiodicSearch::new(aperiodic::Family::Turyn(n), mode);
             drive(&s, &what, &common, &command)
         }
-        Kind::Gs { v, what, common } => {
-            let s = goethals_seidel::GsSearch::new(v);
+        Kind::Gs {
+            v,
+            multiplier,
+            what,
+            common,
+        } => {
+            let s = match multiplier {
+                Some(g) => match goethals_seidel::GsSearch::with_multiplier(v, g) {
+                    Ok(s) => s,
+                    Err(e) => {
+                        eprintln!("error: {e}");
+                        return ExitCode::from(2);
+                    }
+                },
+                None if (1..=40).contains(&v) => goethals_seidel::GsSearch::new(v),
+                None => {
+                    eprintln!("error: --v {v} is too long to search every sequence (at most 40); choose --multiplier G, one of:");
+                    let choices = goethals_seidel::multiplier_choices(v, goethals_seidel::MAX_ORBITS);
+                    if choices.is_empty() {
+                        eprintln!("  (none: every group of multipliers mod {v} has more than {} orbits)", goethals_seidel::MAX_ORBITS);
+                    }
+                    for (g, size, orbits) in choices {
+                        eprintln!("  --multiplier {g:<5} a group of {size} multipliers, {orbits} orbits (2^{orbits} sequences)");
+                    }
+                    return ExitCode::from(2);
+                }
+            };
             drive(&s, &what, &common, &command)
         }
         Kind::Merge {
