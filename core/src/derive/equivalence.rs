@@ -137,7 +137,7 @@ pub fn equivalence(a: &Verified, b: &Verified, node_budget: u64) -> Result<Equiv
         report.invariants_compared = true;
         if let Some(name) = ia.first_difference(&ib) {
             report.verdict = Verdict::Inequivalent;
-            report.note = format!("inequivalent: their {name} differ, and it is unchanged by every row and column permutation and negation");
+            report.note = format!("inequivalent: their {} differ, an invariant of every row and column permutation and negation", describe(name));
             report.invariant = Some(DifferingInvariant { name, a: ia.value_of(name), b: ib.value_of(name) });
             return Ok(report);
         }
@@ -170,6 +170,18 @@ pub fn equivalence(a: &Verified, b: &Verified, node_budget: u64) -> Result<Equiv
         }
     }
     Ok(report)
+}
+
+/// An invariant's name in words.
+fn describe(name: &str) -> &'static str {
+    match name {
+        "profile4" => "4-profiles",
+        "profile4_transpose" => "4-profiles of the transposes",
+        "row_profiles" => "row profiles (4-profile counts through each row)",
+        "column_profiles" => "column profiles (4-profile counts through each column)",
+        "row_pair_profiles" => "row-pair profiles (4-profile counts through each pair of rows)",
+        _ => "column-pair profiles (4-profile counts through each pair of columns)",
+    }
 }
 
 /// Dense class ids shared by both lists: equal profiles get equal ids.
