@@ -36,22 +36,38 @@ pub struct SymmetricDesign {
     pub reference: &'static str,
 }
 
+/// The largest order whose design is made: checking every pair of points costs n³/64.
+pub const DESIGN_MAX_ORDER: usize = 4096;
+
 /// The design of `h`, which needs order ≥ 4.
 pub fn symmetric_design(h: &Verified) -> Result<SymmetricDesign, DeriveError> {
     let n = h.order();
     if n < 4 {
         return Err(DeriveError::new("matrix", format!("the symmetric design needs an order of at least 4 (a multiple of 4); this matrix has order {n}")));
     }
+    if n > DESIGN_MAX_ORDER {
+        return Err(DeriveError::new(
+            "matrix",
+            format!("the symmetric design is made (and its pairs checked) up to order {DESIGN_MAX_ORDER}; this matrix has order {n}"),
+        ));
+    }
     let hn = h.matrix().normalized();
     let v = n - 1;
     // Incidence by points: bit i of point p's row is set when point p lies in block i.
     let by_point = Matrix::from_fn(v, v, |p, i| !hn.is_negative(i + 1, p + 1));
-    let blocks: Vec<Vec<usize>> = (0..v).map(|i| (0..v).filter(|&p| by_point.is_negative(p, i)).collect()).collect();
+    let blocks: Vec<Vec<usize>> = (0..v)
+        .map(|i| (0..v).filter(|&p| by_point.is_negative(p, i)).collect())
+        .collect();
     let (k, lambda) = (n / 2 - 1, n / 4 - 1);
     let mut ok = blocks.iter().all(|b| b.len() == k);
     for p in 0..v {
         for q in p + 1..v {
-            let common: u32 = by_point.row_words(p).iter().zip(by_point.row_words(q)).map(|(a, b)| (a & b).count_ones()).sum();
+            let common: u32 = by_point
+                .row_words(p)
+                .iter()
+                .zip(by_point.row_words(q))
+                .map(|(a, b)| (a & b).count_ones())
+                .sum();
             ok &= common as usize == lambda;
         }
     }
@@ -91,10 +107,18 @@ mod tests {
 
     #[test]
     fn every_pair_lies_in_lambda_blocks() {
-        for h in [sylvester(3).unwrap(), paley_one(11).unwrap(), paley_one(23).unwrap(), sylvester(6).unwrap()] {
+        for h in [
+            sylvester(3).unwrap(),
+            paley_one(11).unwrap(),
+            paley_one(23).unwrap(),
+            sylvester(6).unwrap(),
+        ] {
             let d = symmetric_design(&h).unwrap();
             assert!(d.verified_pairs);
-            assert_eq!((d.v, d.k, d.lambda), (h.order() - 1, h.order() / 2 - 1, h.order() / 4 - 1));
+            assert_eq!(
+                (d.v, d.k, d.lambda),
+                (h.order() - 1, h.order() / 2 - 1, h.order() / 4 - 1)
+            );
         }
     }
 }

@@ -52,8 +52,16 @@ pub fn replication(h: &Verified, strata: usize) -> Result<Replication, DeriveErr
     if strata >= n {
         return Err(DeriveError::new("strata", format!("{strata} strata need a matrix of order greater than {strata} (the constant row is left out); this one has order {n}")));
     }
+    if n.saturating_mul(strata) > super::MAX_CELLS {
+        return Err(DeriveError::new(
+            "strata",
+            format!("{n} replicates × {strata} strata is more than the {} cells a replicate set is made with", super::MAX_CELLS),
+        ));
+    }
     let hn = h.matrix().normalized();
-    let signs: Vec<Vec<i8>> = (0..n).map(|r| (1..=strata).map(|s| hn.get(s, r)).collect()).collect();
+    let signs: Vec<Vec<i8>> = (0..n)
+        .map(|r| (1..=strata).map(|s| hn.get(s, r)).collect())
+        .collect();
     let (orthogonal, balanced) = orthogonal_and_balanced(&signs, strata);
     Ok(Replication {
         kind: "balanced-repeated-replication",
@@ -73,8 +81,14 @@ pub fn replication(h: &Verified, strata: usize) -> Result<Replication, DeriveErr
 impl Replication {
     /// CSV: a header `replicate,stratum_1,…`, then one line per replicate of ±1 signs.
     pub fn write_csv(&self, out: &mut dyn std::io::Write) -> std::io::Result<()> {
-        let header = std::iter::once("replicate".to_owned()).chain((1..=self.strata).map(|h| format!("stratum_{h}"))).collect::<Vec<_>>();
-        let body = self.signs.iter().enumerate().map(|(r, row)| std::iter::once(r.to_string()).chain(row.iter().map(|s| s.to_string())).collect::<Vec<_>>());
+        let header = std::iter::once("replicate".to_owned())
+            .chain((1..=self.strata).map(|h| format!("stratum_{h}")))
+            .collect::<Vec<_>>();
+        let body = self.signs.iter().enumerate().map(|(r, row)| {
+            std::iter::once(r.to_string())
+                .chain(row.iter().map(|s| s.to_string()))
+                .collect::<Vec<_>>()
+        });
         write_csv(std::iter::once(header).chain(body), out)
     }
 }
@@ -87,8 +101,16 @@ mod tests {
     #[test]
     fn eleven_strata_from_order_twelve_are_balanced_and_orthogonal() {
         let r = replication(&paley_one(11).unwrap(), 11).unwrap();
-        assert_eq!((r.replicates, r.signs.len(), r.signs[0].len()), (12, 12, 11));
+        assert_eq!(
+            (r.replicates, r.signs.len(), r.signs[0].len()),
+            (12, 12, 11)
+        );
         assert!(r.balanced && r.orthogonal);
-        assert_eq!(replication(&paley_one(11).unwrap(), 12).unwrap_err().parameter, "strata");
+        assert_eq!(
+            replication(&paley_one(11).unwrap(), 12)
+                .unwrap_err()
+                .parameter,
+            "strata"
+        );
     }
 }

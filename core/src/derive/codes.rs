@@ -38,7 +38,10 @@ impl FromStr for CodeKind {
             "full" => Ok(CodeKind::Full),
             "punctured" => Ok(CodeKind::Punctured),
             "shortened" => Ok(CodeKind::Shortened),
-            _ => Err(DeriveError::new("variant", format!("unknown code `{s}`: use full, punctured or shortened"))),
+            _ => Err(DeriveError::new(
+                "variant",
+                format!("unknown code `{s}`: use full, punctured or shortened"),
+            )),
         }
     }
 }
@@ -73,7 +76,9 @@ fn words_as_strings<S: serde::Serializer>(m: &Matrix, s: S) -> Result<S::Ok, S::
 }
 
 fn word(m: &Matrix, i: usize) -> String {
-    (0..m.cols()).map(|j| if m.is_negative(i, j) { '1' } else { '0' }).collect()
+    (0..m.cols())
+        .map(|j| if m.is_negative(i, j) { '1' } else { '0' })
+        .collect()
 }
 
 /// The smallest Hamming distance between two distinct rows of `m` (bits as the binary word).
@@ -81,7 +86,12 @@ pub fn min_distance(m: &Matrix) -> Option<usize> {
     let mut best: Option<usize> = None;
     for i in 0..m.rows() {
         for j in i + 1..m.rows() {
-            let d = m.row_words(i).iter().zip(m.row_words(j)).map(|(a, b)| (a ^ b).count_ones() as usize).sum();
+            let d = m
+                .row_words(i)
+                .iter()
+                .zip(m.row_words(j))
+                .map(|(a, b)| (a ^ b).count_ones() as usize)
+                .sum();
             best = Some(best.map_or(d, |b: usize| b.min(d)));
         }
     }
@@ -92,7 +102,19 @@ pub fn min_distance(m: &Matrix) -> Option<usize> {
 pub fn hadamard_code(h: &Verified, variant: CodeKind) -> Result<HadamardCode, DeriveError> {
     let n = h.order();
     if n < 2 {
-        return Err(DeriveError::new("matrix", format!("the Hadamard codes need an order of at least 2; this matrix has order {n}")));
+        return Err(DeriveError::new(
+            "matrix",
+            format!("the Hadamard codes need an order of at least 2; this matrix has order {n}"),
+        ));
+    }
+    if n > super::MAX_ORDER {
+        return Err(DeriveError::new(
+            "matrix",
+            format!(
+                "the Hadamard codes are made up to order {}; this matrix has order {n}",
+                super::MAX_ORDER
+            ),
+        ));
     }
     let hn = h.matrix().normalized();
     let (skip, negations) = match variant {
@@ -114,7 +136,9 @@ pub fn hadamard_code(h: &Verified, variant: CodeKind) -> Result<HadamardCode, De
         CodeKind::Full | CodeKind::Shortened => n / 2,
         CodeKind::Punctured => n / 2 - 1,
     };
-    let computed = (n <= DISTANCE_CHECK_MAX_ORDER).then(|| min_distance(&words)).flatten();
+    let computed = (n <= DISTANCE_CHECK_MAX_ORDER)
+        .then(|| min_distance(&words))
+        .flatten();
     Ok(HadamardCode {
         kind: "hadamard-code",
         variant,
@@ -135,7 +159,11 @@ impl HadamardCode {
     /// CSV: one word per line, its bits separated by commas.
     pub fn write_csv(&self, out: &mut dyn std::io::Write) -> std::io::Result<()> {
         let m = &self.words;
-        write_csv((0..m.rows()).map(|i| (0..m.cols()).map(move |j| if m.is_negative(i, j) { "1" } else { "0" })), out)
+        write_csv(
+            (0..m.rows())
+                .map(|i| (0..m.cols()).map(move |j| if m.is_negative(i, j) { "1" } else { "0" })),
+            out,
+        )
     }
 
     /// Plain text: one word of `0`/`1` per line.
@@ -155,11 +183,24 @@ mod tests {
 
     #[test]
     fn parameters_of_the_three_codes() {
-        for h in [sylvester(3).unwrap(), paley_one(11).unwrap(), paley_one(19).unwrap(), sylvester(5).unwrap()] {
+        for h in [
+            sylvester(3).unwrap(),
+            paley_one(11).unwrap(),
+            paley_one(19).unwrap(),
+            sylvester(5).unwrap(),
+        ] {
             let n = h.order();
-            for (v, len, size, d) in [(CodeKind::Full, n, 2 * n, n / 2), (CodeKind::Punctured, n - 1, 2 * n, n / 2 - 1), (CodeKind::Shortened, n - 1, n, n / 2)] {
+            for (v, len, size, d) in [
+                (CodeKind::Full, n, 2 * n, n / 2),
+                (CodeKind::Punctured, n - 1, 2 * n, n / 2 - 1),
+                (CodeKind::Shortened, n - 1, n, n / 2),
+            ] {
                 let c = hadamard_code(&h, v).unwrap();
-                assert_eq!((c.length, c.size, c.min_distance, c.distance_computed), (len, size, d, true), "{v:?} n={n}");
+                assert_eq!(
+                    (c.length, c.size, c.min_distance, c.distance_computed),
+                    (len, size, d, true),
+                    "{v:?} n={n}"
+                );
             }
         }
     }

@@ -55,7 +55,9 @@ pub struct Certificate {
 
 fn is_permutation(p: &[usize], n: usize) -> bool {
     let mut seen = vec![false; n];
-    p.len() == n && p.iter().all(|&x| x < n && !std::mem::replace(&mut seen[x], true))
+    p.len() == n
+        && p.iter()
+            .all(|&x| x < n && !std::mem::replace(&mut seen[x], true))
 }
 
 /// True when `c` carries `a` to `b` exactly (and is made of permutations and signs).
@@ -64,13 +66,26 @@ pub fn check_certificate(a: &Matrix, b: &Matrix, c: &Certificate) -> bool {
     if a.cols() != n || b.rows() != n || b.cols() != n {
         return false;
     }
-    if !is_permutation(&c.row_map, n) || !is_permutation(&c.col_map, n) || c.row_signs.len() != n || c.col_signs.len() != n {
+    if !is_permutation(&c.row_map, n)
+        || !is_permutation(&c.col_map, n)
+        || c.row_signs.len() != n
+        || c.col_signs.len() != n
+    {
         return false;
     }
-    if !c.row_signs.iter().chain(&c.col_signs).all(|&s| s == 1 || s == -1) {
+    if !c
+        .row_signs
+        .iter()
+        .chain(&c.col_signs)
+        .all(|&s| s == 1 || s == -1)
+    {
         return false;
     }
-    (0..n).all(|i| (0..n).all(|j| b.get(c.row_map[i], c.col_map[j]) == c.row_signs[i] * c.col_signs[j] * a.get(i, j)))
+    (0..n).all(|i| {
+        (0..n).all(|j| {
+            b.get(c.row_map[i], c.col_map[j]) == c.row_signs[i] * c.col_signs[j] * a.get(i, j)
+        })
+    })
 }
 
 /// The verdict.
@@ -112,7 +127,11 @@ pub struct EquivalenceReport {
 }
 
 /// Decides whether `a` and `b` are equivalent, searching at most `node_budget` nodes.
-pub fn equivalence(a: &Verified, b: &Verified, node_budget: u64) -> Result<EquivalenceReport, DeriveError> {
+pub fn equivalence(
+    a: &Verified,
+    b: &Verified,
+    node_budget: u64,
+) -> Result<EquivalenceReport, DeriveError> {
     let n = a.order();
     if b.order() != n {
         return Err(DeriveError::new("b", format!("the matrices have different orders ({n} and {}), so they are not equivalent; equivalence compares matrices of one order", b.order())));
@@ -138,12 +157,17 @@ pub fn equivalence(a: &Verified, b: &Verified, node_budget: u64) -> Result<Equiv
         if let Some(name) = ia.first_difference(&ib) {
             report.verdict = Verdict::Inequivalent;
             report.note = format!("inequivalent: their {} differ, an invariant of every row and column permutation and negation", describe(name));
-            report.invariant = Some(DifferingInvariant { name, a: ia.value_of(name), b: ib.value_of(name) });
+            report.invariant = Some(DifferingInvariant {
+                name,
+                a: ia.value_of(name),
+                b: ib.value_of(name),
+            });
             return Ok(report);
         }
         classes = Some((class_ids(&ra, &rb), class_ids(&ca, &cb)));
     }
-    let ((row_a, row_b), (col_a, col_b)) = classes.unwrap_or_else(|| ((vec![0; n], vec![0; n]), (vec![0; n], vec![0; n])));
+    let ((row_a, row_b), (col_a, col_b)) =
+        classes.unwrap_or_else(|| ((vec![0; n], vec![0; n]), (vec![0; n], vec![0; n])));
     let mut s = Search::new(am, bm, row_a, row_b, node_budget);
     let found = s.run(col_a, col_b);
     report.nodes = s.nodes;
@@ -154,7 +178,9 @@ pub fn equivalence(a: &Verified, b: &Verified, node_budget: u64) -> Result<Equiv
                 return Err(DeriveError::new("certificate", "the search produced a certificate that does not check (a bug); nothing is claimed"));
             }
             report.verdict = Verdict::Equivalent;
-            report.note = "equivalent: the certificate maps A onto B entry by entry, and was checked".to_owned();
+            report.note =
+                "equivalent: the certificate maps A onto B entry by entry, and was checked"
+                    .to_owned();
             report.certificate = Some(c);
         }
         Outcome::Exhausted => {
@@ -221,21 +247,50 @@ type Key = (u32, Vec<i32>);
 impl Search {
     fn new(am: &Matrix, bm: &Matrix, row_a: Vec<u32>, row_b: Vec<u32>, budget: u64) -> Search {
         let n = am.rows();
-        let flat = |m: &Matrix| (0..n).flat_map(|i| (0..n).map(move |j| (i, j))).map(|(i, j)| m.get(i, j)).collect::<Vec<i8>>();
+        let flat = |m: &Matrix| {
+            (0..n)
+                .flat_map(|i| (0..n).map(move |j| (i, j)))
+                .map(|(i, j)| m.get(i, j))
+                .collect::<Vec<i8>>()
+        };
         let b = flat(bm);
-        let b_rows = (0..n).map(|r| (b[r * n..(r + 1) * n].to_vec(), r)).collect();
-        Search { n, a: flat(am), b, row_a, row_b, b_rows, nodes: 0, budget, out_of_budget: false }
+        let b_rows = (0..n)
+            .map(|r| (b[r * n..(r + 1) * n].to_vec(), r))
+            .collect();
+        Search {
+            n,
+            a: flat(am),
+            b,
+            row_a,
+            row_b,
+            b_rows,
+            nodes: 0,
+            budget,
+            out_of_budget: false,
+        }
     }
 
     fn run(&mut self, col_a: Vec<u32>, col_b: Vec<u32>) -> Outcome {
         let n = self.n;
         if n == 0 {
-            return Outcome::Found(Certificate { row_map: vec![], row_signs: vec![], col_map: vec![], col_signs: vec![] });
+            return Outcome::Found(Certificate {
+                row_map: vec![],
+                row_signs: vec![],
+                col_map: vec![],
+                col_signs: vec![],
+            });
         }
         // The first row of A: the one whose class has the fewest members in B.
         let count_b = |c: u32| self.row_b.iter().filter(|&&x| x == c).count();
         let i1 = (0..n).min_by_key(|&i| count_b(self.row_a[i])).unwrap_or(0);
-        let mut state = State { assigned: vec![None; n], used: vec![false; n], col_a, col_b, i1, b1: 0 };
+        let mut state = State {
+            assigned: vec![None; n],
+            used: vec![false; n],
+            col_a,
+            col_b,
+            i1,
+            b1: 0,
+        };
         for b1 in 0..n {
             if self.row_b[b1] != self.row_a[i1] {
                 continue;
@@ -268,7 +323,11 @@ impl Search {
             Some(&x) if x < 0 => -1,
             _ => 1,
         };
-        let canon = if sign < 0 { sums.iter().map(|x| -x).collect() } else { sums };
+        let canon = if sign < 0 {
+            sums.iter().map(|x| -x).collect()
+        } else {
+            sums
+        };
         ((class, canon), sign)
     }
 
@@ -307,7 +366,11 @@ impl Search {
         for (_, k, _) in &a_keys {
             *need.entry(k).or_default() += 1;
         }
-        if need.len() != b_keys.len() || need.iter().any(|(k, &c)| b_keys.get(*k).map_or(0, Vec::len) != c) {
+        if need.len() != b_keys.len()
+            || need
+                .iter()
+                .any(|(k, &c)| b_keys.get(*k).map_or(0, Vec::len) != c)
+        {
             return None;
         }
         // The row of A with the fewest candidates.
@@ -316,7 +379,13 @@ impl Search {
         let zero = key.1.iter().all(|&x| x == 0);
         let candidates: Vec<(usize, i8)> = b_keys[&key]
             .iter()
-            .flat_map(|&(r, sb)| if zero { vec![(r, 1), (r, -1)] } else { vec![(r, sa * sb)] })
+            .flat_map(|&(r, sb)| {
+                if zero {
+                    vec![(r, 1), (r, -1)]
+                } else {
+                    vec![(r, sa * sb)]
+                }
+            })
             .collect();
         for (r, sign) in candidates {
             let saved = (s.col_a.clone(), s.col_b.clone());
@@ -341,8 +410,12 @@ impl Search {
             let next = ids.len() as u32;
             *ids.entry(k).or_insert(next)
         };
-        let new_a: Vec<u32> = (0..self.n).map(|j| id((s.col_a[j], self.na(s, i, j)))).collect();
-        let new_b: Vec<u32> = (0..self.n).map(|c| id((s.col_b[c], sign * self.nb(s, r, c)))).collect();
+        let new_a: Vec<u32> = (0..self.n)
+            .map(|j| id((s.col_a[j], self.na(s, i, j))))
+            .collect();
+        let new_b: Vec<u32> = (0..self.n)
+            .map(|c| id((s.col_b[c], sign * self.nb(s, r, c))))
+            .collect();
         s.col_a = new_a;
         s.col_b = new_b;
     }
@@ -361,7 +434,9 @@ impl Search {
                 return None;
             }
         }
-        let col_signs: Vec<i8> = (0..n).map(|j| self.b[s.b1 * n + col_map[j]] * self.a[s.i1 * n + j]).collect();
+        let col_signs: Vec<i8> = (0..n)
+            .map(|j| self.b[s.b1 * n + col_map[j]] * self.a[s.i1 * n + j])
+            .collect();
         let mut row_map = vec![0; n];
         let mut row_signs = vec![1i8; n];
         let mut used = vec![false; n];
@@ -383,7 +458,12 @@ impl Search {
             row_map[i] = r;
             row_signs[i] = e;
         }
-        let c = Certificate { row_map, row_signs, col_map, col_signs };
+        let c = Certificate {
+            row_map,
+            row_signs,
+            col_map,
+            col_signs,
+        };
         let (a, b) = (self.matrix(&self.a), self.matrix(&self.b));
         check_certificate(&a, &b, &c).then_some(c)
     }
@@ -430,7 +510,18 @@ mod tests {
                 return true;
             }
             for (k, &c) in cands.iter().enumerate() {
-                let rest: Vec<usize> = cands[k + 1..].iter().copied().filter(|&d| all[c].iter().zip(&all[d]).map(|(x, y)| (x * y) as i32).sum::<i32>() == 0).collect();
+                let rest: Vec<usize> = cands[k + 1..]
+                    .iter()
+                    .copied()
+                    .filter(|&d| {
+                        all[c]
+                            .iter()
+                            .zip(&all[d])
+                            .map(|(x, y)| (x * y) as i32)
+                            .sum::<i32>()
+                            == 0
+                    })
+                    .collect();
                 if rest.len() + rows.len() + 1 < n - 1 {
                     continue;
                 }
@@ -445,7 +536,11 @@ mod tests {
         let mut all: Vec<Vec<i8>> = Vec::new();
         for bits in 0u32..1 << (n - 1) {
             if bits.count_ones() as usize == n / 2 {
-                all.push(std::iter::once(1).chain((0..n - 1).map(|j| if bits >> j & 1 == 1 { -1 } else { 1 })).collect());
+                all.push(
+                    std::iter::once(1)
+                        .chain((0..n - 1).map(|j| if bits >> j & 1 == 1 { -1 } else { 1 }))
+                        .collect(),
+                );
             }
         }
         let mut order: Vec<usize> = (0..all.len()).collect();
@@ -459,11 +554,28 @@ mod tests {
 
     #[test]
     fn scrambled_copies_are_found_equivalent_with_a_checked_certificate() {
-        for h in [sylvester(4).unwrap(), paley_one(11).unwrap(), paley_one(23).unwrap(), sylvester(5).unwrap(), paley_one(31).unwrap(), paley_two(13).unwrap()] {
+        for h in [
+            sylvester(4).unwrap(),
+            paley_one(11).unwrap(),
+            paley_one(23).unwrap(),
+            sylvester(5).unwrap(),
+            paley_one(31).unwrap(),
+            paley_two(13).unwrap(),
+        ] {
             let b = certify(scramble(h.matrix(), h.order() as u64)).unwrap();
             let r = equivalence(&h, &b, DEFAULT_NODE_BUDGET).unwrap();
-            assert_eq!(r.verdict, Verdict::Equivalent, "order {}: {}", h.order(), r.note);
-            assert!(check_certificate(h.matrix(), b.matrix(), r.certificate.as_ref().unwrap()));
+            assert_eq!(
+                r.verdict,
+                Verdict::Equivalent,
+                "order {}: {}",
+                h.order(),
+                r.note
+            );
+            assert!(check_certificate(
+                h.matrix(),
+                b.matrix(),
+                r.certificate.as_ref().unwrap()
+            ));
         }
     }
 
@@ -476,7 +588,10 @@ mod tests {
         assert_eq!(r.verdict, Verdict::Equivalent, "{}", r.note);
         for seed in 0..5 {
             let h = random_hadamard(12, seed);
-            assert_eq!(equivalence(&p1, &h, DEFAULT_NODE_BUDGET).unwrap().verdict, Verdict::Equivalent);
+            assert_eq!(
+                equivalence(&p1, &h, DEFAULT_NODE_BUDGET).unwrap().verdict,
+                Verdict::Equivalent
+            );
         }
     }
 
@@ -509,7 +624,10 @@ mod tests {
             }
         }
         // The 4-profile alone does not separate them; the pair profiles are needed.
-        assert!(names.contains("row_pair_profiles") || names.contains("column_pair_profiles"), "{names:?}");
+        assert!(
+            names.contains("row_pair_profiles") || names.contains("column_pair_profiles"),
+            "{names:?}"
+        );
     }
 
     #[test]
@@ -517,8 +635,16 @@ mod tests {
         let s = sylvester(5).unwrap();
         let p = paley_one(31).unwrap();
         let r = equivalence(&s, &p, 0).unwrap();
-        assert_eq!((r.verdict, r.invariant.as_ref().map(|i| i.name)), (Verdict::Inequivalent, Some("profile4")));
-        assert_eq!(equivalence(&s, &sylvester(4).unwrap(), 10).unwrap_err().parameter, "b");
+        assert_eq!(
+            (r.verdict, r.invariant.as_ref().map(|i| i.name)),
+            (Verdict::Inequivalent, Some("profile4"))
+        );
+        assert_eq!(
+            equivalence(&s, &sylvester(4).unwrap(), 10)
+                .unwrap_err()
+                .parameter,
+            "b"
+        );
     }
 
     #[test]
@@ -533,7 +659,12 @@ mod tests {
     fn a_wrong_certificate_is_refused() {
         let h = sylvester(3).unwrap();
         let id: Vec<usize> = (0..8).collect();
-        let mut c = Certificate { row_map: id.clone(), row_signs: vec![1; 8], col_map: id, col_signs: vec![1; 8] };
+        let mut c = Certificate {
+            row_map: id.clone(),
+            row_signs: vec![1; 8],
+            col_map: id,
+            col_signs: vec![1; 8],
+        };
         assert!(check_certificate(h.matrix(), h.matrix(), &c));
         c.row_signs[2] = -1;
         assert!(!check_certificate(h.matrix(), h.matrix(), &c));

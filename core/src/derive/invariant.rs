@@ -42,9 +42,17 @@ fn quadruples(m: &Matrix, per_row: bool) -> (Profile, Vec<Profile>, Vec<Profile>
     let w = m.words_per_row();
     let mut histogram = vec![0u64; c + 1];
     // rows[r][d]: quadruples through row r whose product has d entries −1.
-    let mut rows = if per_row { vec![vec![0u64; c + 1]; n] } else { Vec::new() };
+    let mut rows = if per_row {
+        vec![vec![0u64; c + 1]; n]
+    } else {
+        Vec::new()
+    };
     // pairs[i·n + j][d], i < j: the same for the quadruples through rows i and j.
-    let mut pairs = if per_row { vec![vec![0u64; c + 1]; n * n] } else { Vec::new() };
+    let mut pairs = if per_row {
+        vec![vec![0u64; c + 1]; n * n]
+    } else {
+        Vec::new()
+    };
     let mut ab = vec![0u64; w];
     let mut abc = vec![0u64; w];
     for i in 0..n {
@@ -57,13 +65,24 @@ fn quadruples(m: &Matrix, per_row: bool) -> (Profile, Vec<Profile>, Vec<Profile>
                     *t = x ^ y;
                 }
                 for l in k + 1..n {
-                    let d = abc.iter().zip(m.row_words(l)).map(|(x, y)| (x ^ y).count_ones()).sum::<u32>() as usize;
+                    let d = abc
+                        .iter()
+                        .zip(m.row_words(l))
+                        .map(|(x, y)| (x ^ y).count_ones())
+                        .sum::<u32>() as usize;
                     histogram[d] += 1;
                     if per_row {
                         for r in [i, j, k, l] {
                             rows[r][d] += 1;
                         }
-                        for p in [i * n + j, i * n + k, i * n + l, j * n + k, j * n + l, k * n + l] {
+                        for p in [
+                            i * n + j,
+                            i * n + k,
+                            i * n + l,
+                            j * n + k,
+                            j * n + l,
+                            k * n + l,
+                        ] {
                             pairs[p][d] += 1;
                         }
                     }
@@ -75,14 +94,22 @@ fn quadruples(m: &Matrix, per_row: bool) -> (Profile, Vec<Profile>, Vec<Profile>
         let mut p = Profile::new();
         for (d, &k) in h.iter().enumerate() {
             if k > 0 {
-                *p.entry((c as i64 - 2 * d as i64).unsigned_abs()).or_default() += k;
+                *p.entry((c as i64 - 2 * d as i64).unsigned_abs())
+                    .or_default() += k;
             }
         }
         p
     };
-    let mut pair_profiles: Vec<Profile> = (0..if per_row { n } else { 0 }).flat_map(|i| (i + 1..n).map(move |j| i * n + j)).map(|p| fold(&pairs[p])).collect();
+    let mut pair_profiles: Vec<Profile> = (0..if per_row { n } else { 0 })
+        .flat_map(|i| (i + 1..n).map(move |j| i * n + j))
+        .map(|p| fold(&pairs[p]))
+        .collect();
     pair_profiles.sort();
-    (fold(&histogram), rows.iter().map(|h| fold(h)).collect(), pair_profiles)
+    (
+        fold(&histogram),
+        rows.iter().map(|h| fold(h)).collect(),
+        pair_profiles,
+    )
 }
 
 /// The invariants used to prove two matrices inequivalent, strongest last.
@@ -118,7 +145,14 @@ impl Invariants {
             s.sort();
             s
         };
-        let inv = Invariants { profile4, profile4_transpose, row_profiles: sorted(&rows), column_profiles: sorted(&cols), row_pair_profiles, column_pair_profiles };
+        let inv = Invariants {
+            profile4,
+            profile4_transpose,
+            row_profiles: sorted(&rows),
+            column_profiles: sorted(&cols),
+            row_pair_profiles,
+            column_pair_profiles,
+        };
         (inv, rows, cols)
     }
 
@@ -168,10 +202,19 @@ mod tests {
     #[test]
     fn regression_values_from_constructions_md() {
         // constructions.md §5 (an independent computation, regression values only).
-        assert_eq!(profile4(sylvester(3).unwrap().matrix()), map(&[(0, 56), (8, 14)]));
+        assert_eq!(
+            profile4(sylvester(3).unwrap().matrix()),
+            map(&[(0, 56), (8, 14)])
+        );
         assert_eq!(profile4(paley_one(11).unwrap().matrix()), map(&[(4, 495)]));
-        assert_eq!(profile4(sylvester(4).unwrap().matrix()), map(&[(0, 1680), (16, 140)]));
-        assert_eq!(profile4(paley_one(19).unwrap().matrix()), map(&[(4, 4560), (12, 285)]));
+        assert_eq!(
+            profile4(sylvester(4).unwrap().matrix()),
+            map(&[(0, 1680), (16, 140)])
+        );
+        assert_eq!(
+            profile4(paley_one(19).unwrap().matrix()),
+            map(&[(4, 4560), (12, 285)])
+        );
     }
 
     #[test]

@@ -43,7 +43,10 @@ pub struct DeriveError {
 
 impl DeriveError {
     pub(crate) fn new(parameter: &str, message: impl Into<String>) -> DeriveError {
-        DeriveError { parameter: parameter.to_owned(), message: message.into() }
+        DeriveError {
+            parameter: parameter.to_owned(),
+            message: message.into(),
+        }
     }
 }
 
@@ -87,15 +90,60 @@ where
 /// Whether the columns of a ±1 (or 0 for centre points) table are pairwise orthogonal and
 /// each sums to zero: the defining properties of an orthogonal two-level design.
 pub(crate) fn orthogonal_and_balanced(rows: &[Vec<i8>], cols: usize) -> (bool, bool) {
-    let mut orthogonal = true;
-    let mut balanced = true;
-    for a in 0..cols {
-        let sum: i64 = rows.iter().map(|r| r[a] as i64).sum();
-        balanced &= sum == 0;
-        for b in a + 1..cols {
-            let dot: i64 = rows.iter().map(|r| r[a] as i64 * r[b] as i64).sum();
-            orthogonal &= dot == 0;
+    // Each column packed as two bit strings over the runs: nonzero, and negative. The inner
+    // product of columns a and b is then |both nonzero| − 2·|both nonzero, signs differ|.
+    let words = rows.len().div_ceil(64);
+    let mut nonzero = vec![vec![0u64; words]; cols];
+    let mut negative = vec![vec![0u64; words]; cols];
+    for (r, row) in rows.iter().enumerate() {
+        for (c, &x) in row.iter().enumerate().take(cols) {
+            if x != 0 {
+                nonzero[c][r / 64] |= 1 << (r % 64);
+            }
+            if x < 0 {
+                negative[c][r / 64] |= 1 << (r % 64);
+            }
         }
     }
+    let count = |v: &[u64]| v.iter().map(|w| w.count_ones() as i64).sum::<i64>();
+    let balanced = (0..cols).all(|c| count(&nonzero[c]) == 2 * count(&negative[c]));
+    let orthogonal = (0..cols).all(|a| {
+        (a + 1..cols).all(|b| {
+            let (mut both, mut differ) = (0i64, 0i64);
+            for w in 0..words {
+                let m = nonzero[a][w] & nonzero[b][w];
+                both += m.count_ones() as i64;
+                differ += (m & (negative[a][w] ^ negative[b][w])).count_ones() as i64;
+            }
+            both == 2 * differ
+        })
+    });
     (orthogonal, balanced)
+}
+
+/// The largest order codes and screening designs are made for: their output grows as n².
+pub const MAX_ORDER: usize = 8192;
+
+/// The most cells (runs × factors, replicates × strata) a design or replicate set may have.
+pub const MAX_CELLS: usize = 1 << 26;
+
+#[cfg(test)]
+mod tests {
+    use super::orthogonal_and_balanced;
+
+    #[test]
+    fn the_design_check_sees_a_non_orthogonal_or_unbalanced_table() {
+        let good = vec![
+            vec![1, 1],
+            vec![1, -1],
+            vec![-1, 1],
+            vec![-1, -1],
+            vec![0, 0],
+        ];
+        assert_eq!(orthogonal_and_balanced(&good, 2), (true, true));
+        let skewed = vec![vec![1, 1], vec![1, 1], vec![-1, -1], vec![-1, -1]];
+        assert_eq!(orthogonal_and_balanced(&skewed, 2), (false, true));
+        let lopsided = vec![vec![1, 1], vec![1, -1], vec![1, 1], vec![-1, -1]];
+        assert_eq!(orthogonal_and_balanced(&lopsided, 2).1, false);
+    }
 }

@@ -44,14 +44,19 @@ impl FromStr for RowOrder {
             "natural" => Ok(RowOrder::Natural),
             "sequency" | "walsh" => Ok(RowOrder::Sequency),
             "dyadic" | "paley" => Ok(RowOrder::Dyadic),
-            _ => Err(DeriveError::new("order", format!("unknown row order `{s}`: use natural, sequency or dyadic"))),
+            _ => Err(DeriveError::new(
+                "order",
+                format!("unknown row order `{s}`: use natural, sequency or dyadic"),
+            )),
         }
     }
 }
 
 /// The number of sign changes along row i.
 pub fn sequency(m: &Matrix, i: usize) -> usize {
-    (1..m.cols()).filter(|&j| m.is_negative(i, j) != m.is_negative(i, j - 1)).count()
+    (1..m.cols())
+        .filter(|&j| m.is_negative(i, j) != m.is_negative(i, j - 1))
+        .count()
 }
 
 /// Whether sequency order is defined for a matrix, and why not when it is not.
@@ -74,7 +79,12 @@ pub fn sequency_report(m: &Matrix) -> SequencyReport {
     for (i, &s) in sequencies.iter().enumerate() {
         by[s].push(i);
     }
-    let shared: Vec<Vec<usize>> = by.iter().filter(|g| g.len() > 1).take(10).cloned().collect();
+    let shared: Vec<Vec<usize>> = by
+        .iter()
+        .filter(|g| g.len() > 1)
+        .take(10)
+        .cloned()
+        .collect();
     let distinct = shared.is_empty();
     let mut note = if distinct {
         "the rows have distinct sequencies 0..n−1, so sequency (Walsh) order is defined".to_owned()
@@ -85,7 +95,12 @@ pub fn sequency_report(m: &Matrix) -> SequencyReport {
     if n == 12 && !distinct {
         note.push_str("; no Hadamard matrix of order 12 has rows of every sequency (Webb and Kennedy, IEEE Trans. Computers 20(5), 1971)");
     }
-    SequencyReport { sequencies, distinct, shared, note }
+    SequencyReport {
+        sequencies,
+        distinct,
+        shared,
+        note,
+    }
 }
 
 /// For Sylvester's matrix up to row order and signs (columns in natural order), the Walsh
@@ -148,7 +163,10 @@ pub fn reorder(h: &Verified, order: RowOrder) -> Result<Reordered, DeriveError> 
             }
             let mut rows: Vec<usize> = (0..n).collect();
             rows.sort_by_key(|&i| rep.sequencies[i]);
-            (rows, "sequency (Walsh) order: row k has k sign changes".to_owned())
+            (
+                rows,
+                "sequency (Walsh) order: row k has k sign changes".to_owned(),
+            )
         }
         RowOrder::Dyadic => {
             let Some(idx) = walsh_indices(m) else {
@@ -159,7 +177,11 @@ pub fn reorder(h: &Verified, order: RowOrder) -> Result<Reordered, DeriveError> 
             for (r, &i) in idx.iter().enumerate() {
                 by_index[i] = r;
             }
-            ((0..n).map(|p| by_index[bit_reverse(p, bits)]).collect(), "dyadic (Paley) order: row p is the Walsh function with index bitreverse(p)".to_owned())
+            (
+                (0..n).map(|p| by_index[bit_reverse(p, bits)]).collect(),
+                "dyadic (Paley) order: row p is the Walsh function with index bitreverse(p)"
+                    .to_owned(),
+            )
         }
     };
     let mut out = Matrix::ones(n, m.cols());
@@ -168,7 +190,13 @@ pub fn reorder(h: &Verified, order: RowOrder) -> Result<Reordered, DeriveError> 
     }
     let sequencies = (0..n).map(|k| sequency(&out, k)).collect();
     let matrix = certify(out).map_err(|_| DeriveError::new("matrix", "the reordered matrix failed the exact check (a bug: row permutations keep a matrix Hadamard)"))?;
-    Ok(Reordered { order_kind: order, source_rows, sequencies, matrix, note })
+    Ok(Reordered {
+        order_kind: order,
+        source_rows,
+        sequencies,
+        matrix,
+        note,
+    })
 }
 
 /// A float format for scaled output.
@@ -188,13 +216,32 @@ pub fn scaled_note(n: usize) -> String {
 }
 
 /// Writes `m` scaled by 1/√(columns) in a float format.
-pub fn write_scaled(m: &Matrix, f: ScaledFormat, out: &mut dyn std::io::Write) -> std::io::Result<()> {
+pub fn write_scaled(
+    m: &Matrix,
+    f: ScaledFormat,
+    out: &mut dyn std::io::Write,
+) -> std::io::Result<()> {
     let c = m.cols().max(1);
     let s = 1.0 / (c as f64).sqrt();
     let (plus, minus) = (format!("{s}"), format!("{}", -s));
-    let row = |i: usize| -> String { (0..m.cols()).map(|j| if m.is_negative(i, j) { minus.as_str() } else { plus.as_str() }).collect::<Vec<_>>().join(",") };
+    let row = |i: usize| -> String {
+        (0..m.cols())
+            .map(|j| {
+                if m.is_negative(i, j) {
+                    minus.as_str()
+                } else {
+                    plus.as_str()
+                }
+            })
+            .collect::<Vec<_>>()
+            .join(",")
+    };
     match f {
-        ScaledFormat::Npy => crate::formats::write_to(m, &crate::formats::WriteFormat::NpyF64 { scaled: true }, out),
+        ScaledFormat::Npy => crate::formats::write_to(
+            m,
+            &crate::formats::WriteFormat::NpyF64 { scaled: true },
+            out,
+        ),
         ScaledFormat::Csv => {
             writeln!(out, "# {}", scaled_note(m.cols()))?;
             for i in 0..m.rows() {

@@ -146,10 +146,16 @@ fn midpoint(low: &str, high: &str) -> String {
 pub const MAX_RUNS: usize = 1 << 16;
 
 /// Builds the design the configuration describes from `h`.
-pub fn screening_design(h: &Verified, cfg: &ScreeningConfig) -> Result<ScreeningDesign, DeriveError> {
+pub fn screening_design(
+    h: &Verified,
+    cfg: &ScreeningConfig,
+) -> Result<ScreeningDesign, DeriveError> {
     let n = h.order();
     if n < 2 {
-        return Err(DeriveError::new("matrix", format!("a design needs an order of at least 2; this matrix has order {n}")));
+        return Err(DeriveError::new(
+            "matrix",
+            format!("a design needs an order of at least 2; this matrix has order {n}"),
+        ));
     }
     let (columns, reason) = match &cfg.columns {
         Some(cols) => {
@@ -162,7 +168,10 @@ pub fn screening_design(h: &Verified, cfg: &ScreeningConfig) -> Result<Screening
                     return Err(DeriveError::new("columns", format!("item {}: column {c} is not one of 1..{} (column 0 of the normalised matrix is constant and carries no factor)", k + 1, n - 1)));
                 }
                 if seen[c] {
-                    return Err(DeriveError::new("columns", format!("item {}: column {c} is given twice", k + 1)));
+                    return Err(DeriveError::new(
+                        "columns",
+                        format!("item {}: column {c} is given twice", k + 1),
+                    ));
                 }
                 seen[c] = true;
             }
@@ -171,17 +180,31 @@ pub fn screening_design(h: &Verified, cfg: &ScreeningConfig) -> Result<Screening
         None => {
             let k = cfg.factors.unwrap_or(n - 1);
             if k == 0 || k > n - 1 {
-                return Err(DeriveError::new("factors", format!("a matrix of order {n} gives 1 to {} factors, not {k}", n - 1)));
+                return Err(DeriveError::new(
+                    "factors",
+                    format!(
+                        "a matrix of order {n} gives 1 to {} factors, not {k}",
+                        n - 1
+                    ),
+                ));
             }
             ((1..=k).collect(), DEFAULT_REASON.to_owned())
         }
     };
     let k = columns.len();
     let names: Vec<String> = match &cfg.names {
-        Some(v) if v.len() != k => return Err(DeriveError::new("names", format!("{} names for {k} factors", v.len()))),
+        Some(v) if v.len() != k => {
+            return Err(DeriveError::new(
+                "names",
+                format!("{} names for {k} factors", v.len()),
+            ))
+        }
         Some(v) => {
             if let Some(p) = v.iter().position(|s| s.trim().is_empty()) {
-                return Err(DeriveError::new("names", format!("name {} is empty", p + 1)));
+                return Err(DeriveError::new(
+                    "names",
+                    format!("name {} is empty", p + 1),
+                ));
             }
             v.clone()
         }
@@ -191,19 +214,46 @@ pub fn screening_design(h: &Verified, cfg: &ScreeningConfig) -> Result<Screening
         None => vec![("-1".into(), "+1".into()); k],
         Some(v) if v.len() == 1 => vec![v[0].clone(); k],
         Some(v) if v.len() == k => v.clone(),
-        Some(v) => return Err(DeriveError::new("levels", format!("{} level pairs for {k} factors: give one pair for all, or one per factor", v.len()))),
+        Some(v) => {
+            return Err(DeriveError::new(
+                "levels",
+                format!(
+                    "{} level pairs for {k} factors: give one pair for all, or one per factor",
+                    v.len()
+                ),
+            ))
+        }
     };
-    let runs_total = n * if cfg.fold_over { 2 } else { 1 } + cfg.centre_points;
-    if runs_total > MAX_RUNS || cfg.centre_points > MAX_RUNS {
-        return Err(DeriveError::new("centre-points", format!("the design would have more than {MAX_RUNS} runs")));
+    let runs_total = (n * if cfg.fold_over { 2 } else { 1 }).saturating_add(cfg.centre_points);
+    if runs_total > MAX_RUNS {
+        return Err(DeriveError::new(
+            "centre-points",
+            format!("the design would have more than {MAX_RUNS} runs"),
+        ));
+    }
+    if runs_total.saturating_mul(k) > super::MAX_CELLS {
+        return Err(DeriveError::new(
+            "factors",
+            format!("{runs_total} runs × {k} factors is more than the {} cells a design is made with; choose fewer factors", super::MAX_CELLS),
+        ));
     }
     let factors: Vec<Factor> = names
         .into_iter()
         .zip(&columns)
         .zip(levels)
         .map(|((name, &column), (low, high))| {
-            let centre = if cfg.levels.is_none() { "0".to_owned() } else { midpoint(&low, &high) };
-            Factor { name, column, low, high, centre }
+            let centre = if cfg.levels.is_none() {
+                "0".to_owned()
+            } else {
+                midpoint(&low, &high)
+            };
+            Factor {
+                name,
+                column,
+                low,
+                high,
+                centre,
+            }
         })
         .collect();
 
@@ -211,16 +261,34 @@ pub fn screening_design(h: &Verified, cfg: &ScreeningConfig) -> Result<Screening
     let mut runs: Vec<Run> = Vec::with_capacity(runs_total);
     for i in 0..n {
         let coded = columns.iter().map(|&c| hn.get(i, c)).collect();
-        runs.push(Run { run: 0, standard_order: runs.len() + 1, kind: RunKind::Design, source_row: Some(i), coded });
+        runs.push(Run {
+            run: 0,
+            standard_order: runs.len() + 1,
+            kind: RunKind::Design,
+            source_row: Some(i),
+            coded,
+        });
     }
     if cfg.fold_over {
         for i in 0..n {
             let coded = columns.iter().map(|&c| -hn.get(i, c)).collect();
-            runs.push(Run { run: 0, standard_order: runs.len() + 1, kind: RunKind::FoldOver, source_row: Some(i), coded });
+            runs.push(Run {
+                run: 0,
+                standard_order: runs.len() + 1,
+                kind: RunKind::FoldOver,
+                source_row: Some(i),
+                coded,
+            });
         }
     }
     for _ in 0..cfg.centre_points {
-        runs.push(Run { run: 0, standard_order: runs.len() + 1, kind: RunKind::Centre, source_row: None, coded: vec![0; k] });
+        runs.push(Run {
+            run: 0,
+            standard_order: runs.len() + 1,
+            kind: RunKind::Centre,
+            source_row: None,
+            coded: vec![0; k],
+        });
     }
     if let Some(seed) = cfg.seed {
         SplitMix64::new(seed).shuffle(&mut runs);
@@ -264,7 +332,11 @@ impl ScreeningDesign {
     /// CSV: a header `run,standard_order,kind,<factor names>`, then one line per run in run
     /// order, levels as named (or −1/+1, 0 for centre points).
     pub fn write_csv(&self, out: &mut dyn std::io::Write) -> std::io::Result<()> {
-        let mut header = vec!["run".to_owned(), "standard_order".to_owned(), "kind".to_owned()];
+        let mut header = vec![
+            "run".to_owned(),
+            "standard_order".to_owned(),
+            "kind".to_owned(),
+        ];
         header.extend(self.factors.iter().map(|f| f.name.clone()));
         let body = self.runs.iter().map(|r| {
             let kind = match r.kind {
@@ -272,8 +344,17 @@ impl ScreeningDesign {
                 RunKind::FoldOver => "fold-over",
                 RunKind::Centre => "centre",
             };
-            let mut row = vec![r.run.to_string(), r.standard_order.to_string(), kind.to_owned()];
-            row.extend(r.coded.iter().enumerate().map(|(f, &c)| self.level(f, c).to_owned()));
+            let mut row = vec![
+                r.run.to_string(),
+                r.standard_order.to_string(),
+                kind.to_owned(),
+            ];
+            row.extend(
+                r.coded
+                    .iter()
+                    .enumerate()
+                    .map(|(f, &c)| self.level(f, c).to_owned()),
+            );
             row
         });
         write_csv(std::iter::once(header).chain(body), out)
@@ -288,10 +369,27 @@ mod tests {
     #[test]
     fn plackett_burman_12_has_orthogonal_balanced_columns() {
         let h = paley_one(11).unwrap();
-        let d = screening_design(&h, &ScreeningConfig { factors: Some(11), ..Default::default() }).unwrap();
+        let d = screening_design(
+            &h,
+            &ScreeningConfig {
+                factors: Some(11),
+                ..Default::default()
+            },
+        )
+        .unwrap();
         assert_eq!(d.runs.len(), 12);
         assert!(d.properties.columns_orthogonal && d.properties.columns_balanced);
-        let f = screening_design(&h, &ScreeningConfig { factors: Some(5), fold_over: true, centre_points: 3, seed: Some(9), ..Default::default() }).unwrap();
+        let f = screening_design(
+            &h,
+            &ScreeningConfig {
+                factors: Some(5),
+                fold_over: true,
+                centre_points: 3,
+                seed: Some(9),
+                ..Default::default()
+            },
+        )
+        .unwrap();
         assert_eq!(f.runs.len(), 27);
         assert!(f.properties.columns_orthogonal && f.properties.columns_balanced);
         let mut order: Vec<usize> = f.runs.iter().map(|r| r.standard_order).collect();
@@ -303,23 +401,64 @@ mod tests {
     #[test]
     fn bad_requests_name_their_parameter() {
         let h = sylvester(3).unwrap();
-        let e = screening_design(&h, &ScreeningConfig { factors: Some(8), ..Default::default() }).unwrap_err();
+        let e = screening_design(
+            &h,
+            &ScreeningConfig {
+                factors: Some(8),
+                ..Default::default()
+            },
+        )
+        .unwrap_err();
         assert_eq!(e.parameter, "factors");
-        let e = screening_design(&h, &ScreeningConfig { columns: Some(vec![1, 0]), ..Default::default() }).unwrap_err();
+        let e = screening_design(
+            &h,
+            &ScreeningConfig {
+                columns: Some(vec![1, 0]),
+                ..Default::default()
+            },
+        )
+        .unwrap_err();
         assert!(e.to_string().starts_with("columns: item 2"), "{e}");
-        let e = screening_design(&h, &ScreeningConfig { factors: Some(3), levels: Some(vec![("a".into(), "b".into()); 2]), ..Default::default() }).unwrap_err();
+        let huge = ScreeningConfig {
+            centre_points: usize::MAX,
+            ..Default::default()
+        };
+        assert_eq!(
+            screening_design(&h, &huge).unwrap_err().parameter,
+            "centre-points"
+        );
+        let e = screening_design(
+            &h,
+            &ScreeningConfig {
+                factors: Some(3),
+                levels: Some(vec![("a".into(), "b".into()); 2]),
+                ..Default::default()
+            },
+        )
+        .unwrap_err();
         assert_eq!(e.parameter, "levels");
     }
 
     #[test]
     fn named_levels_and_numeric_centres() {
         let h = sylvester(2).unwrap();
-        let cfg = ScreeningConfig { factors: Some(2), centre_points: 1, levels: Some(vec![("150".into(), "200".into()), ("low".into(), "high".into())]), ..Default::default() };
+        let cfg = ScreeningConfig {
+            factors: Some(2),
+            centre_points: 1,
+            levels: Some(vec![
+                ("150".into(), "200".into()),
+                ("low".into(), "high".into()),
+            ]),
+            ..Default::default()
+        };
         let d = screening_design(&h, &cfg).unwrap();
         let mut out = Vec::new();
         d.write_csv(&mut out).unwrap();
         let text = String::from_utf8(out).unwrap();
-        assert!(text.starts_with("run,standard_order,kind,A,B\n1,1,design,200,high\n"), "{text}");
+        assert!(
+            text.starts_with("run,standard_order,kind,A,B\n1,1,design,200,high\n"),
+            "{text}"
+        );
         assert!(text.ends_with("5,5,centre,175,centre\n"), "{text}");
     }
 }

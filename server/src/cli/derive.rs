@@ -11,7 +11,9 @@ use super::output::{open_output, parse_write_format};
 use hadamard_core::derive::block_design::symmetric_design;
 use hadamard_core::derive::brr::replication;
 use hadamard_core::derive::codes::{hadamard_code, CodeKind};
-use hadamard_core::derive::ordering::{reorder, sequency_report, write_scaled, RowOrder, ScaledFormat};
+use hadamard_core::derive::ordering::{
+    reorder, sequency_report, write_scaled, RowOrder, ScaledFormat,
+};
 use hadamard_core::derive::screening::{screening_design, RunKind, ScreeningConfig};
 use hadamard_core::derive::DeriveError;
 use hadamard_core::route;
@@ -74,7 +76,12 @@ struct ScreeningArgs {
     #[arg(long, value_name = "K")]
     factors: Option<usize>,
     /// The columns of the normalised matrix to use, e.g. 1,2,5 (each 1..n−1; column 0 is constant).
-    #[arg(long, value_name = "LIST", value_delimiter = ',', conflicts_with = "factors")]
+    #[arg(
+        long,
+        value_name = "LIST",
+        value_delimiter = ',',
+        conflicts_with = "factors"
+    )]
     columns: Option<Vec<usize>>,
     /// Factor names, comma-separated (default A, B, C, …).
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
@@ -194,9 +201,15 @@ fn derive_failed(e: DeriveError) -> ExitCode {
 }
 
 /// Writes through the writer `-o` names, reporting a failure as exit 2.
-fn emit(path: Option<&str>, f: impl FnOnce(&mut dyn Write) -> std::io::Result<()>) -> Result<ExitCode, ExitCode> {
-    let mut out = open_output(path).map_err(|e| fail(2, &format!("cannot open the output: {e}")))?;
-    f(&mut out).and_then(|_| out.flush()).map_err(|e| fail(2, &format!("cannot write: {e}")))?;
+fn emit(
+    path: Option<&str>,
+    f: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
+) -> Result<ExitCode, ExitCode> {
+    let mut out =
+        open_output(path).map_err(|e| fail(2, &format!("cannot open the output: {e}")))?;
+    f(&mut out)
+        .and_then(|_| out.flush())
+        .map_err(|e| fail(2, &format!("cannot write: {e}")))?;
     Ok(ExitCode::SUCCESS)
 }
 
@@ -206,7 +219,10 @@ fn json_to(out: &mut dyn Write, v: &impl Serialize) -> std::io::Result<()> {
 }
 
 fn clock_seed() -> u64 {
-    let t = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_nanos() as u64).unwrap_or(0);
+    let t = std::time::SystemTime::now()
+        .duration_since(std::time::UNIX_EPOCH)
+        .map(|d| d.as_nanos() as u64)
+        .unwrap_or(0);
     t ^ (std::process::id() as u64).rotate_left(32)
 }
 
@@ -218,24 +234,94 @@ fn screening(a: ScreeningArgs) -> Result<ExitCode, ExitCode> {
         Some(v) => Some(
             v.iter()
                 .enumerate()
-                .map(|(k, p)| p.split_once(':').map(|(l, h)| (l.to_owned(), h.to_owned())).ok_or_else(|| InputError::Usage(format!("--levels item {}: `{p}` is not LOW:HIGH", k + 1)).report(json)))
+                .map(|(k, p)| {
+                    p.split_once(':')
+                        .map(|(l, h)| (l.to_owned(), h.to_owned()))
+                        .ok_or_else(|| {
+                            InputError::Usage(format!(
+                                "--levels item {}: `{p}` is not LOW:HIGH",
+                                k + 1
+                            ))
+                            .report(json)
+                        })
+                })
                 .collect::<Result<Vec<_>, _>>()?,
         ),
     };
-    let seed = if a.standard_order { None } else { Some(a.seed.unwrap_or_else(clock_seed)) };
-    let cfg = ScreeningConfig { factors: a.factors, columns: a.columns, names: a.names, levels, fold_over: a.fold_over, centre_points: a.centre_points, seed };
+    let seed = if a.standard_order {
+        None
+    } else {
+        Some(a.seed.unwrap_or_else(clock_seed))
+    };
+    let cfg = ScreeningConfig {
+        factors: a.factors,
+        columns: a.columns,
+        names: a.names,
+        levels,
+        fold_over: a.fold_over,
+        centre_points: a.centre_points,
+        seed,
+    };
     let d = screening_design(&h, &cfg).map_err(derive_failed)?;
     emit(a.out.output.as_deref(), |out| match a.out.format() {
         "json" => json_to(out, &d),
         "csv" => d.write_csv(out),
         _ => {
-            writeln!(out, "Screening design from a Hadamard matrix of order {} (id {})", d.order, d.source_id)?;
-            writeln!(out, "  {} runs, {} factors{}{}", d.runs.len(), d.factors.len(), if d.fold_over { ", folded over" } else { "" }, if d.centre_points > 0 { format!(", {} centre points", d.centre_points) } else { String::new() })?;
-            writeln!(out, "  columns     {} ({})", d.factors.iter().map(|f| f.column.to_string()).collect::<Vec<_>>().join(","), d.columns_reason)?;
-            writeln!(out, "  run order   {}", match d.randomisation.seed { Some(s) => format!("randomised, seed {s} (replay with --seed {s})"), None => "standard order".into() })?;
-            writeln!(out, "  properties  every pair of columns orthogonal: {}; every column balanced: {}", yes(d.properties.columns_orthogonal), yes(d.properties.columns_balanced))?;
+            writeln!(
+                out,
+                "Screening design from a Hadamard matrix of order {} (id {})",
+                d.order, d.source_id
+            )?;
+            writeln!(
+                out,
+                "  {} runs, {} factors{}{}",
+                d.runs.len(),
+                d.factors.len(),
+                if d.fold_over { ", folded over" } else { "" },
+                if d.centre_points > 0 {
+                    format!(", {} centre points", d.centre_points)
+                } else {
+                    String::new()
+                }
+            )?;
+            writeln!(
+                out,
+                "  columns     {} ({})",
+                d.factors
+                    .iter()
+                    .map(|f| f.column.to_string())
+                    .collect::<Vec<_>>()
+                    .join(","),
+                d.columns_reason
+            )?;
+            writeln!(
+                out,
+                "  run order   {}",
+                match d.randomisation.seed {
+                    Some(s) => format!("randomised, seed {s} (replay with --seed {s})"),
+                    None => "standard order".into(),
+                }
+            )?;
+            writeln!(
+                out,
+                "  properties  every pair of columns orthogonal: {}; every column balanced: {}",
+                yes(d.properties.columns_orthogonal),
+                yes(d.properties.columns_balanced)
+            )?;
             writeln!(out, "  source      {}", d.reference)?;
-            let w = d.factors.iter().map(|f| f.name.len().max(f.low.len()).max(f.high.len()).max(f.centre.len())).max().unwrap_or(2).max(2);
+            let w = d
+                .factors
+                .iter()
+                .map(|f| {
+                    f.name
+                        .len()
+                        .max(f.low.len())
+                        .max(f.high.len())
+                        .max(f.centre.len())
+                })
+                .max()
+                .unwrap_or(2)
+                .max(2);
             write!(out, "\n  run  std  kind      ")?;
             for f in &d.factors {
                 write!(out, " {:>w$}", f.name)?;
@@ -270,14 +356,26 @@ fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
     let json = a.out.format() == "json";
     let mut chosen = None;
     let h = match &a.path {
-        Some(p) => load_verified(&InputArgs { path: p.clone(), format: None, bits_minus: "1".into(), max_order: 1 << 15 }, json)?,
+        Some(p) => load_verified(
+            &InputArgs {
+                path: p.clone(),
+                format: None,
+                bits_minus: "1".into(),
+                max_order: 1 << 15,
+            },
+            json,
+        )?,
         None => {
             let k = a.strata as u64;
             let known = route::smallest_known_at_least(k + 1).map(|i| i.order);
             let Some(built) = route::smallest_constructible_at_least(k + 1) else {
-                return Err(fail(3, &format!("no order greater than {k} is within this program's reach")));
+                return Err(fail(
+                    3,
+                    &format!("no order greater than {k} is within this program's reach"),
+                ));
             };
-            let h = route::build_order(built.order).map_err(|e| fail(3, &format!("order {} could not be built: {e:?}", built.order)))?;
+            let h = route::build_order(built.order)
+                .map_err(|e| fail(3, &format!("order {} could not be built: {e}", built.order)))?;
             chosen = Some((known, built.order));
             h
         }
@@ -288,7 +386,10 @@ fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
             let mut v = serde_json::to_value(&r).map_err(std::io::Error::other)?;
             if let (Some((known, built)), Some(o)) = (chosen, v.as_object_mut()) {
                 o.insert("smallest_known_order".into(), serde_json::json!(known));
-                o.insert("smallest_constructible_order".into(), serde_json::json!(built));
+                o.insert(
+                    "smallest_constructible_order".into(),
+                    serde_json::json!(built),
+                );
             }
             json_to(out, &v)
         }
@@ -301,11 +402,22 @@ fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
                     _ => " (also the smallest known)".into(),
                 })?;
             }
-            writeln!(out, "  properties  balanced: {}; orthogonal: {}", yes(r.balanced), yes(r.orthogonal))?;
+            writeln!(
+                out,
+                "  properties  balanced: {}; orthogonal: {}",
+                yes(r.balanced),
+                yes(r.orthogonal)
+            )?;
             writeln!(out, "  {}", r.note)?;
             writeln!(out, "  source      {}\n", r.reference)?;
             for (i, row) in r.signs.iter().enumerate() {
-                writeln!(out, "  replicate {i:>4}  {}", row.iter().map(|&s| if s > 0 { '+' } else { '-' }).collect::<String>())?;
+                writeln!(
+                    out,
+                    "  replicate {i:>4}  {}",
+                    row.iter()
+                        .map(|&s| if s > 0 { '+' } else { '-' })
+                        .collect::<String>()
+                )?;
             }
             Ok(())
         }
@@ -320,8 +432,23 @@ fn code(a: CodeArgs) -> Result<ExitCode, ExitCode> {
         "json" => json_to(out, &c),
         "csv" => c.write_csv(out),
         _ => {
-            writeln!(out, "The {} Hadamard code of a matrix of order {} (id {})", a.variant, c.order, c.source_id)?;
-            writeln!(out, "  length {}, {} words, minimum distance {} ({})", c.length, c.size, c.min_distance, if c.distance_computed { "computed over every pair of words" } else { "from the theorem; not computed at this order" })?;
+            writeln!(
+                out,
+                "The {} Hadamard code of a matrix of order {} (id {})",
+                a.variant, c.order, c.source_id
+            )?;
+            writeln!(
+                out,
+                "  length {}, {} words, minimum distance {} ({})",
+                c.length,
+                c.size,
+                c.min_distance,
+                if c.distance_computed {
+                    "computed over every pair of words"
+                } else {
+                    "from the theorem; not computed at this order"
+                }
+            )?;
             writeln!(out, "  mapping     {}", c.mapping)?;
             writeln!(out, "  source      {}\n", c.reference)?;
             c.write_text(out)
@@ -336,12 +463,23 @@ fn design(a: DesignArgs) -> Result<ExitCode, ExitCode> {
         "json" => json_to(out, &d),
         "csv" => d.write_csv(out),
         _ => {
-            writeln!(out, "The symmetric 2-({}, {}, {}) design of a matrix of order {} (id {})", d.v, d.k, d.lambda, d.order, d.source_id)?;
+            writeln!(
+                out,
+                "The symmetric 2-({}, {}, {}) design of a matrix of order {} (id {})",
+                d.v, d.k, d.lambda, d.order, d.source_id
+            )?;
             writeln!(out, "  {} points and {} blocks of {} points; every pair of points in exactly {} blocks: {}", d.v, d.b, d.k, d.lambda, yes(d.verified_pairs))?;
             writeln!(out, "  points and blocks counted from 0 (point p is column p+1 of the normalised matrix)")?;
             writeln!(out, "  source      {}\n", d.reference)?;
             for (i, b) in d.blocks.iter().enumerate() {
-                writeln!(out, "  block {i:>4}  {}", b.iter().map(|p| p.to_string()).collect::<Vec<_>>().join(" "))?;
+                writeln!(
+                    out,
+                    "  block {i:>4}  {}",
+                    b.iter()
+                        .map(|p| p.to_string())
+                        .collect::<Vec<_>>()
+                        .join(" ")
+                )?;
             }
             Ok(())
         }
@@ -352,7 +490,11 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
     let h = load_verified(&a.input, a.format == "report")?;
     if a.format == "report" {
         let rep = sequency_report(h.matrix());
-        let code = if rep.distinct { ExitCode::SUCCESS } else { ExitCode::from(1) };
+        let code = if rep.distinct {
+            ExitCode::SUCCESS
+        } else {
+            ExitCode::from(1)
+        };
         emit(a.output.as_deref(), |out| json_to(out, &rep))?;
         return Ok(code);
     }
@@ -362,7 +504,14 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
             "csv" => ScaledFormat::Csv,
             "json" => ScaledFormat::Json,
             "npy-f64" | "npy-f64-scaled" => ScaledFormat::Npy,
-            f => return Err(fail(2, &format!("--scaled writes floats: use --format csv, json or npy-f64, not `{f}`"))),
+            f => {
+                return Err(fail(
+                    2,
+                    &format!(
+                        "--scaled writes floats: use --format csv, json or npy-f64, not `{f}`"
+                    ),
+                ))
+            }
         })
     } else {
         None
@@ -380,7 +529,11 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
     eprintln!(
         "wrote the rows in {}{}, id {}",
         r.note,
-        if a.scaled { ", SCALED by 1/√n (not normalised)" } else { "" },
+        if a.scaled {
+            ", SCALED by 1/√n (not normalised)"
+        } else {
+            ""
+        },
         r.matrix.id()
     );
     Ok(code)
@@ -390,13 +543,34 @@ fn row(a: RowArgs) -> Result<ExitCode, ExitCode> {
     let h = load_verified(&a.input, a.format == "json")?;
     let n = h.order();
     if a.row >= n {
-        return Err(fail(2, &format!("--row {}: the matrix has order {n}, so its rows are 0 to {}", a.row, n - 1)));
+        return Err(fail(
+            2,
+            &format!(
+                "--row {}: the matrix has order {n}, so its rows are 0 to {}",
+                a.row,
+                n.saturating_sub(1)
+            ),
+        ));
     }
     let m = h.matrix();
     match a.format.as_str() {
-        "pm" => println!("{}", (0..n).map(|j| if m.is_negative(a.row, j) { '-' } else { '+' }).collect::<String>()),
-        "csv" => println!("{}", (0..n).map(|j| m.get(a.row, j).to_string()).collect::<Vec<_>>().join(",")),
-        _ => println!("{}", serde_json::json!({"id": h.id(), "order": n, "row": a.row, "index_base": 0, "values": (0..n).map(|j| m.get(a.row, j)).collect::<Vec<_>>()})),
+        "pm" => println!(
+            "{}",
+            (0..n)
+                .map(|j| if m.is_negative(a.row, j) { '-' } else { '+' })
+                .collect::<String>()
+        ),
+        "csv" => println!(
+            "{}",
+            (0..n)
+                .map(|j| m.get(a.row, j).to_string())
+                .collect::<Vec<_>>()
+                .join(",")
+        ),
+        _ => println!(
+            "{}",
+            serde_json::json!({"id": h.id(), "order": n, "row": a.row, "index_base": 0, "values": (0..n).map(|j| m.get(a.row, j)).collect::<Vec<_>>()})
+        ),
     }
     Ok(ExitCode::SUCCESS)
 }

@@ -24,7 +24,12 @@ pub struct EquivArgs {
 }
 
 pub fn run(args: EquivArgs) -> ExitCode {
-    let input = |p: &str| InputArgs { path: p.to_owned(), format: None, bits_minus: "1".into(), max_order: 1 << 15 };
+    let input = |p: &str| InputArgs {
+        path: p.to_owned(),
+        format: None,
+        bits_minus: "1".into(),
+        max_order: 1 << 15,
+    };
     let load = |p: &str| load_verified(&input(p), args.json).map_err(|_| ExitCode::from(2));
     let (a, b) = match (load(&args.a), load(&args.b)) {
         (Ok(a), Ok(b)) => (a, b),
@@ -40,12 +45,24 @@ pub fn run(args: EquivArgs) -> ExitCode {
     if args.json {
         println!("{}", serde_json::to_string_pretty(&r).unwrap_or_default());
     } else {
-        println!("{} (order {}, {} of {} search nodes)", r.note, r.order, r.nodes, r.node_budget);
+        println!(
+            "{} (order {}, {} of {} search nodes)",
+            r.note, r.order, r.nodes, r.node_budget
+        );
         println!("  A  {}", r.a_id);
         println!("  B  {}", r.b_id);
         if let Some(c) = &r.certificate {
-            let list = |v: &[usize]| v.iter().map(|x| (x + 1).to_string()).collect::<Vec<_>>().join(" ");
-            let signs = |v: &[i8]| v.iter().map(|&s| if s > 0 { '+' } else { '-' }).collect::<String>();
+            let list = |v: &[usize]| {
+                v.iter()
+                    .map(|x| (x + 1).to_string())
+                    .collect::<Vec<_>>()
+                    .join(" ")
+            };
+            let signs = |v: &[i8]| {
+                v.iter()
+                    .map(|&s| if s > 0 { '+' } else { '-' })
+                    .collect::<String>()
+            };
             println!("  B[σ(i)][τ(j)] = ε_i·δ_j·A[i][j], rows and columns counted from 1:");
             println!("  σ  {}", list(&c.row_map));
             println!("  ε  {}", signs(&c.row_signs));
