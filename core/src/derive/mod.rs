@@ -144,6 +144,6 @@ mod tests {
         let skewed = vec![vec![1, 1], vec![1, 1], vec![-1, -1], vec![-1, -1]];
         assert_eq!(orthogonal_and_balanced(&skewed, 2), (false, true));
         let lopsided = vec![vec![1, 1], vec![1, -1], vec![1, 1], vec![-1, -1]];
-        assert_eq!(orthogonal_and_balanced(&lopsided, 2).1, false);
+        assert!(!orthogonal_and_balanced(&lopsided, 2).1);
     }
 }
