@@ -269,6 +269,9 @@ try {
     const api = await (await fetch(`${server.url}/api/matrices/${state.publishedId}/derive/screening?seed=42`)).json();
     eq(api.randomisation.seed, 42, 'the seed typed on the page is the one used');
     await page.screenshot({ path: join(shots, 'matrix-derived.png'), fullPage: true });
+    await page.goto(`${server.url}/orders/12`);
+    await page.waitForSelector('#order-derived a[data-derived="brr"]', { timeout: 30_000 });
+    eq(await page.getAttribute('#order-derived a[data-derived="brr"]', 'href'), '/api/brr?strata=11&format=csv', 'BRR link on the order page');
   });
 
   await test('phone width: no sideways scrolling on the main screens', async (page) => {
