@@ -189,7 +189,7 @@ def test_order_12_has_no_sequency_order(tmp_path):
         # Webb and Kennedy (1971): no order-12 matrix has every sequency; numpy agrees here.
         assert b"Webb and Kennedy" in r.stderr
         assert len(set(sign_changes(load_pm(path)))) < 12
-        rep = json.loads(run("derive", "ordering", "--format", "report", path, check=False).stdout)
+        rep = json.loads(run("derive", "ordering", "--format", "report", path).stdout)
         assert rep["sequencies"] == list(sign_changes(load_pm(path))) and not rep["distinct"]
 
 

@@ -338,8 +338,9 @@ impl Search {
             return None;
         }
         let n = self.n;
-        let classes = 1 + *s.col_a.iter().max().unwrap_or(&0) as usize;
-        if classes == n {
+        // Both sides use one id space; the refinement keeps their sets of ids equal.
+        let classes = 1 + *s.col_a.iter().chain(&s.col_b).max().unwrap_or(&0) as usize;
+        if classes == n && s.col_a.iter().max() == s.col_b.iter().max() {
             return self.complete(s);
         }
         // Signatures of the unmatched rows on both sides.
@@ -424,7 +425,8 @@ impl Search {
     fn complete(&self, s: &State) -> Option<Certificate> {
         let n = self.n;
         let mut col_map = vec![0; n];
-        let mut where_b = vec![usize::MAX; n];
+        let ids = 1 + *s.col_a.iter().chain(&s.col_b).max().unwrap_or(&0) as usize;
+        let mut where_b = vec![usize::MAX; ids];
         for c in 0..n {
             where_b[s.col_b[c] as usize] = c;
         }

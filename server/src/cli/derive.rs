@@ -490,13 +490,8 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
     let h = load_verified(&a.input, a.format == "report")?;
     if a.format == "report" {
         let rep = sequency_report(h.matrix());
-        let code = if rep.distinct {
-            ExitCode::SUCCESS
-        } else {
-            ExitCode::from(1)
-        };
-        emit(a.output.as_deref(), |out| json_to(out, &rep))?;
-        return Ok(code);
+
+        return emit(a.output.as_deref(), |out| json_to(out, &rep));
     }
     let order: RowOrder = a.order.parse().map_err(derive_failed)?;
     let scaled = if a.scaled {
