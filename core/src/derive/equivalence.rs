@@ -633,6 +633,40 @@ mod tests {
     }
 
     #[test]
+    fn the_search_alone_proves_inequivalence_by_exhaustion() {
+        // Without the invariants' classes, the search must still decide order 16 exactly:
+        // Sylvester's class against others is exhausted (10⁵ to 5·10⁵ nodes each), a scrambled
+        // copy is found.
+        let s = sylvester(4).unwrap();
+        let bare = |a: &Verified, b: &Verified| {
+            let n = a.order();
+            let mut search = Search::new(
+                a.matrix(),
+                b.matrix(),
+                vec![0; n],
+                vec![0; n],
+                DEFAULT_NODE_BUDGET,
+            );
+            search.run(vec![0; n], vec![0; n])
+        };
+        let mut exhausted = 0;
+        for seed in 0..3 {
+            let h = random_hadamard(16, seed);
+            let decided = equivalence(&s, &h, DEFAULT_NODE_BUDGET).unwrap().verdict;
+            match (decided, bare(&s, &h)) {
+                (Verdict::Inequivalent, Outcome::Exhausted) => exhausted += 1,
+                (Verdict::Equivalent, Outcome::Found(c)) => {
+                    assert!(check_certificate(s.matrix(), h.matrix(), &c))
+                }
+                (v, _) => panic!("seed {seed}: the search alone disagrees with {v:?}"),
+            }
+        }
+        assert!(exhausted > 0);
+        let copy = certify(scramble(s.matrix(), 5)).unwrap();
+        assert!(matches!(bare(&s, &copy), Outcome::Found(_)));
+    }
+
+    #[test]
     fn different_invariants_and_orders() {
         let s = sylvester(5).unwrap();
         let p = paley_one(31).unwrap();
