@@ -363,6 +363,9 @@ fn derived_objects_and_equivalence() {
     assert!(scaled.text().starts_with("# SCALED"));
     assert_eq!(scaled.header("x-scaled"), Some("1/sqrt(n); not normalised"));
 
+    let csv = s.get("/api/brr?strata=13&format=csv").text();
+    assert!(csv.starts_with("replicate,stratum_1,"), "{csv}");
+    assert_eq!(csv.lines().count(), 17);
     let r = s.get("/api/brr?strata=13").json();
     assert_eq!((r["replicates"].as_u64(), r["smallest_known_order"].as_u64(), r["balanced"].as_bool(), r["orthogonal"].as_bool()), (Some(16), Some(16), Some(true), Some(true)));
 

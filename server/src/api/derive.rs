@@ -335,11 +335,11 @@ pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiR
     let entry = catalogue_entry(&state, n).await?;
     let id = entry["id"].as_str().unwrap_or_default().to_owned();
     let v = load(&state, &id).await?;
-    let r = heavy(&state, move |_| replication(&v, k))
+    let source = v.clone();
+    let r = heavy(&state, move |_| replication(&source, k))
         .await?
         .map_err(bad)?;
     if q.get("format").map(String::as_str) == Some("csv") {
-        let v = load(&state, &id).await?;
         let mut buf = Vec::new();
         r.write_csv(&mut buf)
             .map_err(|e| ApiError::internal(e.to_string()))?;
