@@ -15,6 +15,7 @@
 
 pub mod arith;
 pub mod construct;
+pub mod derive;
 pub mod field;
 pub mod formats;
 pub mod id;

@@ -42,6 +42,11 @@ enum Command {
     Serve(cli::serve::ServeArgs),
     /// Re-verify every matrix stored in a catalogue database; exit 1 if any fails.
     Audit(cli::audit::AuditArgs),
+    /// Objects made from a Hadamard matrix: screening designs, balanced repeated replication,
+    /// Hadamard codes, the symmetric design, row orders and scaled output, single rows.
+    Derive(cli::derive::DeriveArgs),
+    /// Are two matrices equivalent? A checked certificate, a differing invariant, or undecided.
+    Equiv(cli::equiv::EquivArgs),
     /// Search for sequence data (Williamson, Golay, base, Turyn-type, Goethals–Seidel).
     Search(cli::search::SearchArgs),
 }
@@ -78,5 +83,7 @@ fn main() -> ExitCode {
         Command::Serve(a) => cli::serve::run(a),
         Command::Audit(a) => cli::audit::run(a),
         Command::Search(a) => cli::search::run(a),
+        Command::Derive(a) => cli::derive::run(a),
+        Command::Equiv(a) => cli::equiv::run(a),
     }
 }

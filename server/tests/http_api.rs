@@ -327,3 +327,56 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
     let l = s.get("/api/orders/6/matrices").json();
     assert_eq!(l["total"], 0);
 }
+
+#[test]
+fn derived_objects_and_equivalence() {
+    let dir = tempdir();
+    let s = Server::start(&dir.path().join("d.sqlite3"), &[]);
+    let id12 = s.get("/api/orders/12/matrix").json()["id"].as_str().expect("an id").to_owned();
+    let meta = s.get(&format!("/api/matrices/{id12}")).json();
+    let link = |k: &str| meta["derived"][k].as_str().expect("a derived link").to_owned();
+
+    let d = s.get(&format!("/api/matrices/{id12}/derive/screening?factors=5&fold-over=true&centre-points=2&seed=3")).json();
+    assert_eq!(d["runs"].as_array().map(Vec::len), Some(26));
+    assert_eq!(d["properties"]["columns_orthogonal"], true);
+    assert_eq!(d["randomisation"]["seed"], 3);
+    let csv = s.get(&link("screening_csv"));
+    assert_eq!(csv.status, 200);
+    assert_eq!(csv.header("content-type"), Some("text/csv; charset=utf-8"));
+    assert!(csv.text().starts_with("run,standard_order,kind,A,"));
+    let bad = s.get(&format!("/api/matrices/{id12}/derive/screening?columns=1,12"));
+    assert_eq!((bad.status, bad.json()["parameter"].as_str()), (400, Some("columns")));
+    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/screening?seed=x")).status, 400);
+    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/nonsense")).status, 404);
+
+    let c = s.get(&link("code_punctured")).json();
+    assert_eq!((c["length"].as_u64(), c["size"].as_u64(), c["min_distance"].as_u64()), (Some(11), Some(24), Some(5)));
+    let b = s.get(&link("symmetric_design")).json();
+    assert_eq!((b["v"].as_u64(), b["k"].as_u64(), b["lambda"].as_u64(), b["verified_pairs"].as_bool()), (Some(11), Some(5), Some(2), Some(true)));
+    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/brr?strata=12")).status, 400);
+
+    // Order 12 has no sequency order: a 422 that says so, with the sequencies.
+    let q = s.get(&link("ordering_sequency"));
+    assert_eq!(q.status, 422);
+    assert!(q.json()["error"].as_str().unwrap_or("").contains("Webb and Kennedy"));
+    let scaled = s.get(&link("scaled_csv"));
+    assert!(scaled.text().starts_with("# SCALED"));
+    assert_eq!(scaled.header("x-scaled"), Some("1/sqrt(n); not normalised"));
+
+    let csv = s.get("/api/brr?strata=13&format=csv").text();
+    assert!(csv.starts_with("replicate,stratum_1,"), "{csv}");
+    assert_eq!(csv.lines().count(), 17);
+    let r = s.get("/api/brr?strata=13").json();
+    assert_eq!((r["replicates"].as_u64(), r["smallest_known_order"].as_u64(), r["balanced"].as_bool(), r["orthogonal"].as_bool()), (Some(16), Some(16), Some(true), Some(true)));
+
+    // Equivalence of two stored matrices: Sylvester 16 and a negated variant are equivalent.
+    let up = s.post("/api/matrices", sylvester_variant(4, 0b1011).as_bytes()).json();
+    let id16 = up["id"].as_str().expect("an id").to_owned();
+    let s16 = s.get("/api/orders/16/matrix").json()["id"].as_str().expect("an id").to_owned();
+    let e = s.get(&format!("/api/equivalence?a={s16}&b={id16}")).json();
+    assert_eq!(e["verdict"], "equivalent", "{e}");
+    assert!(e["certificate"]["row_map"].is_array());
+    let e = s.get(&format!("/api/equivalence?a={s16}&b={id12}"));
+    assert_eq!((e.status, e.json()["parameter"].as_str()), (400, Some("b")));
+    assert_eq!(s.get(&format!("/api/equivalence?a={s16}")).status, 400);
+}

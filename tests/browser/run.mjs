@@ -254,6 +254,26 @@ try {
     await page.click('#copy-link').catch(() => {});
   });
 
+  await test('the matrix page offers every derived object, and they download', async (page) => {
+    assert(state.publishedId, 'needs the publish test');
+    await page.goto(`${server.url}/m/${state.publishedId}`);
+    await page.waitForSelector('#derived a[data-derived="brr"]', { timeout: 30_000 });
+    for (const k of ['screening', 'code', 'symmetric-design', 'sequency', 'ordering', 'brr', 'equivalence']) {
+      assert(await page.$(`#derived a[data-derived="${k}"]`), `derived link ${k}`);
+    }
+    await page.fill('#derived-seed', '42');
+    const [dl] = await Promise.all([page.waitForEvent('download'), page.click('#derived a[data-derived="screening"]')]);
+    const csv = readFileSync(await dl.path(), 'utf8').split('\n');
+    eq(csv[0], 'run,standard_order,kind,A,B,C,D,E,F,G,H,I,J,K', 'screening CSV header');
+    eq(csv.filter((l) => l.includes(',design,')).length, 12, 'runs');
+    const api = await (await fetch(`${server.url}/api/matrices/${state.publishedId}/derive/screening?seed=42`)).json();
+    eq(api.randomisation.seed, 42, 'the seed typed on the page is the one used');
+    await page.screenshot({ path: join(shots, 'matrix-derived.png'), fullPage: true });
+    await page.goto(`${server.url}/orders/12`);
+    await page.waitForSelector('#order-derived a[data-derived="brr"]', { timeout: 30_000 });
+    eq(await page.getAttribute('#order-derived a[data-derived="brr"]', 'href'), '/api/brr?strata=11&format=csv', 'BRR link on the order page');
+  });
+
   await test('phone width: no sideways scrolling on the main screens', async (page) => {
     for (const path of ['/', '/orders/92', '/coverage', '/verify']) {
       await page.goto(server.url + path);

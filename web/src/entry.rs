@@ -31,6 +31,22 @@ const DOWNLOADS: [(&str, &str, &str); 8] = [
     ("png", "Picture (.png)", "+1 warm off-white, −1 deep ink blue, one square of pixels per entry, about 512 pixels wide."),
 ];
 
+/// Every derived object (`/api/matrices/{id}/derive/…`), with what it is, in words.
+const DERIVED: [(&str, &str, &str); 12] = [
+    ("screening?format=csv&seed={seed}", "Screening design (.csv)", "The two-level orthogonal main-effect design (Plackett–Burman): n runs for n−1 factors, the columns of the normalised matrix after the constant one, in a random run order replayable from the seed. Every pair of columns is orthogonal."),
+    ("screening?format=csv&fold-over=true&seed={seed}", "Screening design with fold-over (.csv)", "The same with the n sign-reversed runs appended (2n runs): main effects are then free of two-factor interactions."),
+    ("screening?seed={seed}", "Screening design (JSON)", "The design with its factors, levels, seed and computed properties."),
+    ("code?variant=full", "Hadamard code, full (JSON)", "The rows of the normalised H and −H as binary words (+1 → 0, −1 → 1): length n, 2n words, minimum distance n/2."),
+    ("code?variant=punctured", "Hadamard code, punctured (JSON)", "The same without the constant first column: length n−1, 2n words, minimum distance n/2−1."),
+    ("code?variant=shortened", "Hadamard code, shortened (JSON)", "The rows only, without the first column: length n−1, n words, minimum distance n/2."),
+    ("symmetric-design?format=csv", "Symmetric 2-design (.csv)", "The incidence matrix of the symmetric 2-(n−1, n/2−1, n/4−1) design: every pair of points lies in exactly n/4−1 blocks."),
+    ("sequency", "Sequencies (JSON)", "Each row's number of sign changes, and whether sequency (Walsh) order is defined for this matrix."),
+    ("ordering?order=sequency", "Rows in sequency order (.txt)", "Row k has k sign changes. Defined only when the rows' sequencies are distinct (as for Sylvester's matrices); otherwise the answer says why not."),
+    ("ordering?order=dyadic", "Rows in dyadic (Paley) order (.txt)", "Defined for Sylvester's matrix: row p is the Walsh function whose index is p with its bits reversed."),
+    ("ordering?scaled=true&format=csv", "Scaled by 1/√n (.csv)", "Entries ±1/√n, so the rows are orthonormal; the first line says so. Scaled is not normalised (normalised means a first row and column of +1)."),
+    ("ordering?scaled=true&format=npy-f64", "Scaled by 1/√n, NumPy float64 (.npy)", "The same as a float64 .npy file."),
+];
+
 fn facts_list(v: &Value) -> Vec<(String, String)> {
     match v.as_object() {
         Some(o) => o
@@ -140,6 +156,11 @@ pub fn Entry(id: String) -> impl IntoView {
     let id_view = id.clone();
     let id_check = id.clone();
     let id_dl = id.clone();
+    let id_derived = id.clone();
+    // A seed for the screening links, taken from the id so the links are stable; editable.
+    let seed = RwSignal::new(u32::from_str_radix(id.get(..8).unwrap_or("1"), 16).unwrap_or(1).to_string());
+    let strata = RwSignal::new(String::from("10"));
+    let other = RwSignal::new(String::new());
     view! {
         <h1 tabindex="-1">"A Hadamard matrix"</h1>
         <section class="card">
@@ -225,6 +246,58 @@ pub fn Entry(id: String) -> impl IntoView {
                         </li>
                     }
                 }).collect_view()}
+            </ul>
+        </section>
+        <section class="card" aria-labelledby="derived-title">
+            <h2 id="derived-title">"Made from this matrix"</h2>
+            <p class="help">"Each object states the property that defines it, computed on what was built, and its published source. Rows, columns and points count from 0."</p>
+            <p>
+                <label for="derived-seed">"Seed for the run order "</label>
+                <input id="derived-seed" type="number" min="0" prop:value=move || seed.get()
+                    on:input=move |ev| seed.set(event_target_value(&ev)) />
+            </p>
+            <ul class="downloads" id="derived">
+                {DERIVED.iter().map(|(q, name, conv)| {
+                    let id = id_derived.clone();
+                    let q = *q;
+                    let href = move || format!("/api/matrices/{id}/derive/{}", q.replace("{seed}", seed.get().trim()));
+                    view! {
+                        <li>
+                            <a href=href download="" data-derived=q.split('?').next().unwrap_or(q)>{*name}</a>
+                            <span class="conv">{*conv}</span>
+                        </li>
+                    }
+                }).collect_view()}
+                {
+                    let id = id_derived.clone();
+                    let href = move || format!("/api/matrices/{id}/derive/brr?format=csv&strata={}", strata.get().trim());
+                    view! {
+                        <li>
+                            <span>
+                                <a href=href download="" data-derived="brr">"Balanced repeated replication (.csv)"</a>
+                                " for "
+                                <input type="number" min="1" aria-label="Number of strata" class="narrow" prop:value=move || strata.get()
+                                    on:input=move |ev| strata.set(event_target_value(&ev)) />
+                                " strata"
+                            </span>
+                            <span class="conv">"A replicate per row, a ±1 sign per stratum: stratum h takes row h of the normalised matrix (the constant row is left out), +1 keeps its first PSU. Needs fewer strata than the order; for k strata the smallest order to use is the smallest known order above k ("<a href="/api/brr?strata=10">"/api/brr?strata=k"</a>")."</span>
+                        </li>
+                    }
+                }
+                {
+                    let id = id_derived.clone();
+                    let href = move || format!("/api/equivalence?a={id}&b={}", other.get().trim());
+                    view! {
+                        <li>
+                            <span>
+                                <a href=href data-derived="equivalence">"Equivalence with"</a>" "
+                                <input type="text" aria-label="The other matrix's id" placeholder="another matrix's id" prop:value=move || other.get()
+                                    on:input=move |ev| other.set(event_target_value(&ev)) />
+                            </span>
+                            <span class="conv">"Whether another stored matrix of the same order is equivalent (rows and columns permuted and negated): a checked certificate, an invariant that differs, or “undecided”."</span>
+                        </li>
+                    }
+                }
             </ul>
         </section>
     }

@@ -369,6 +369,15 @@ fn StoredMatrices(n: u64) -> impl IntoView {
                                 }
                             }).collect_view()}
                         </ul>
+                        <p class="help" id="order-derived">
+                            "Each matrix's page offers what is made from it: screening designs, Hadamard codes, the symmetric 2-design, sequency and dyadic orders, scaled output, equivalence. "
+                            {(n >= 2).then(|| view! {
+                                <a href=format!("/api/brr?strata={}&format=csv", n - 1) download="" data-derived="brr">
+                                    {format!("Balanced repeated replication for {} strata (.csv)", n - 1)}
+                                </a>
+                                ", from the smallest order above the number of strata that this program builds."
+                            })}
+                        </p>
                     }.into_any()
                 }
             }}

@@ -178,8 +178,32 @@ pub async fn show(State(state): State<Arc<AppState>>, Path(id): Path<String>) ->
         "verification": verification_json(&r),
         "downloads": downloads,
         "rows_url": format!("/api/matrices/{id}/rows/{{i}}"),
+        "derived": derived_links(&id, r.order),
     }))
     .into_response())
+}
+
+/// Links to every derived object of a matrix (see `api::derive`); `{k}` is the number of
+/// strata to fill in.
+fn derived_links(id: &str, order: usize) -> Value {
+    let base = format!("/api/matrices/{id}/derive");
+    json!({
+        "screening": format!("{base}/screening?factors={}&seed=1", order.saturating_sub(1).max(1)),
+        "screening_csv": format!("{base}/screening?factors={}&seed=1&format=csv", order.saturating_sub(1).max(1)),
+        "brr": format!("{base}/brr?strata={{k}}"),
+        "code_full": format!("{base}/code?variant=full"),
+        "code_punctured": format!("{base}/code?variant=punctured"),
+        "code_shortened": format!("{base}/code?variant=shortened"),
+        "symmetric_design": format!("{base}/symmetric-design"),
+        "symmetric_design_csv": format!("{base}/symmetric-design?format=csv"),
+        "sequency": format!("{base}/sequency"),
+        "ordering_sequency": format!("{base}/ordering?order=sequency&format=pm"),
+        "ordering_dyadic": format!("{base}/ordering?order=dyadic&format=pm"),
+        "scaled_csv": format!("{base}/ordering?scaled=true&format=csv"),
+        "scaled_json": format!("{base}/ordering?scaled=true&format=json"),
+        "scaled_npy": format!("{base}/ordering?scaled=true&format=npy-f64"),
+        "equivalence": format!("/api/equivalence?a={id}&b={{other id}}"),
+    })
 }
 
 /// A download format with its options, and the tag that tells its representation apart.

@@ -3,6 +3,7 @@
 
 pub mod advice;
 pub mod coverage;
+pub mod derive;
 pub mod helpers;
 pub mod matrices;
 pub mod orders;
@@ -34,6 +35,9 @@ pub async fn index() -> impl IntoResponse {
             "GET  /api/matrices/{id}",
             "GET  /api/matrices/{id}/download?format=pm|csv|bits|json|npy|npy-f64|npy-f64-scaled|png",
             "GET  /api/matrices/{id}/rows/{i}",
+            "GET  /api/matrices/{id}/derive/{screening|brr|code|symmetric-design|ordering|sequency}?...",
+            "GET  /api/brr?strata=k[&format=csv]",
+            "GET  /api/equivalence?a=ID&b=ID[&budget=N]",
         ],
     }))
 }

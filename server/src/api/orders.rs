@@ -42,7 +42,8 @@ pub async fn catalogue_matrix(State(state): State<Arc<AppState>>, Path(n): Path<
     Ok(Json(body).into_response())
 }
 
-async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> {
+/// The catalogue entry of order n as JSON (built and stored on first use).
+pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> {
     let max = state.config.max_order as u64;
     if n > max {
         return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("order {n} is above this server's limit of {max} (--max-order)")).with("limit", max));

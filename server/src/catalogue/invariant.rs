@@ -9,7 +9,7 @@
 //! equivalent matrices (Cooper, Milas and Wallis, "Hadamard equivalence", 1978 [recalled]).
 //! Different profiles prove two matrices inequivalent; equal profiles prove nothing.
 //!
-//! Cost: C(n,4)·⌈n/64⌉ word operations, about 1.1·10⁷ at n = 128 (tens of milliseconds) and
+//! The counting is core's ([`hadamard_core::derive::invariant::profile4`]). Cost: C(n,4)·⌈n/64⌉ word operations, about 1.1·10⁷ at n = 128 (tens of milliseconds) and
 //! 7·10⁸ at n = 256 (about a second). We compute it for n ≤ [`PROFILE_MAX_ORDER`] only; above
 //! that no invariant is stored and uploads say that equivalence was not examined.
 //!
@@ -17,7 +17,6 @@
 //! ascending numeric order, so equal profiles are equal strings and can be matched by index.
 
 use hadamard_core::Matrix;
-use std::collections::BTreeMap;
 
 /// The kind name stored beside the value.
 pub const PROFILE_KIND: &str = "profile4";
@@ -31,33 +30,7 @@ pub fn profile4(m: &Matrix) -> Option<String> {
     if n > PROFILE_MAX_ORDER || m.cols() != n {
         return None;
     }
-    let w = m.words_per_row();
-    let mut counts: BTreeMap<u64, u64> = BTreeMap::new();
-    // histogram[d] counts quadruples whose product row has d entries −1; |Σ| = |n − 2d|.
-    let mut histogram = vec![0u64; n + 1];
-    let mut ab = vec![0u64; w];
-    let mut abc = vec![0u64; w];
-    for i in 0..n {
-        for j in i + 1..n {
-            for (t, (x, y)) in ab.iter_mut().zip(m.row_words(i).iter().zip(m.row_words(j))) {
-                *t = x ^ y;
-            }
-            for k in j + 1..n {
-                for (t, (x, y)) in abc.iter_mut().zip(ab.iter().zip(m.row_words(k))) {
-                    *t = x ^ y;
-                }
-                for l in k + 1..n {
-                    let d: u32 = abc.iter().zip(m.row_words(l)).map(|(x, y)| (x ^ y).count_ones()).sum();
-                    histogram[d as usize] += 1;
-                }
-            }
-        }
-    }
-    for (d, &c) in histogram.iter().enumerate() {
-        if c > 0 {
-            *counts.entry((n as i64 - 2 * d as i64).unsigned_abs()).or_default() += c;
-        }
-    }
+    let counts = hadamard_core::derive::invariant::profile4(m);
     let body: Vec<String> = counts.iter().map(|(v, c)| format!("\"{v}\":{c}")).collect();
     Some(format!("{{{}}}", body.join(",")))
 }

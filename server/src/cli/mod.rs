@@ -5,6 +5,8 @@ pub mod audit;
 pub mod build;
 pub mod convert;
 pub mod coverage;
+pub mod derive;
+pub mod equiv;
 pub mod input;
 pub mod output;
 pub mod progress;

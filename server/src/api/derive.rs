@@ -1,0 +1,387 @@
+//! `/api/matrices/{id}/derive/{kind}`, `/api/brr` and `/api/equivalence`: the objects of
+//! `hadamard_core::derive`, made from stored (and so verified) matrices. Each handler parses
+//! its query into core's configuration, runs core on a heavy thread, and writes JSON or the
+//! object's own file format. A parameter that is wrong is a 400 naming it.
+
+use super::helpers::{heavy, parse_id, truncate, ApiError, ApiResult};
+use super::orders::catalogue_entry;
+use crate::app::AppState;
+use axum::body::Body;
+use axum::extract::{Path, Query, State};
+use axum::http::{header, HeaderValue, StatusCode};
+use axum::response::{IntoResponse, Response};
+use axum::Json;
+use hadamard_core::derive::block_design::symmetric_design;
+use hadamard_core::derive::brr::replication;
+use hadamard_core::derive::codes::hadamard_code;
+use hadamard_core::derive::equivalence::{equivalence, DEFAULT_NODE_BUDGET};
+use hadamard_core::derive::ordering::{
+    reorder, sequency_report, write_scaled, RowOrder, ScaledFormat,
+};
+use hadamard_core::derive::screening::{screening_design, ScreeningConfig};
+use hadamard_core::derive::DeriveError;
+use hadamard_core::formats::{self, WriteFormat};
+use hadamard_core::route;
+use hadamard_core::verify::Verified;
+use serde_json::{json, Value};
+use std::collections::HashMap;
+use std::sync::Arc;
+
+/// The kinds of `/derive/{kind}`.
+pub const KINDS: &[&str] = &[
+    "screening",
+    "brr",
+    "code",
+    "symmetric-design",
+    "ordering",
+    "sequency",
+];
+
+/// The largest order whose designs, codes and replicates are served (their JSON grows as n²).
+pub const DERIVE_MAX_ORDER: usize = 2048;
+
+/// The largest order `/api/equivalence` searches; and the work it may do, in node·n² units.
+pub const EQUIVALENCE_MAX_ORDER: usize = 256;
+const EQUIVALENCE_WORK: u64 = 4_000_000_000;
+
+type Q = HashMap<String, String>;
+
+fn bad(e: DeriveError) -> ApiError {
+    ApiError::bad_request(e.to_string()).with("parameter", e.parameter)
+}
+
+fn number<T: std::str::FromStr>(q: &Q, name: &str) -> ApiResult<Option<T>> {
+    q.get(name)
+        .map(|s| {
+            s.trim().parse::<T>().map_err(|_| {
+                ApiError::bad_request(format!(
+                    "{name} must be a non-negative integer, not `{}`",
+                    truncate(s, 40)
+                ))
+                .with("parameter", name)
+            })
+        })
+        .transpose()
+}
+
+fn flag(q: &Q, name: &str) -> ApiResult<bool> {
+    match q.get(name).map(String::as_str) {
+        None | Some("false") | Some("0") => Ok(false),
+        Some("true") | Some("1") | Some("") => Ok(true),
+        Some(s) => Err(ApiError::bad_request(format!(
+            "{name} must be true or false, not `{}`",
+            truncate(s, 40)
+        ))
+        .with("parameter", name)),
+    }
+}
+
+fn list(q: &Q, name: &str) -> Option<Vec<String>> {
+    q.get(name)
+        .map(|s| s.split(',').map(|x| x.trim().to_owned()).collect())
+}
+
+/// A text or binary answer, as an attachment named after the matrix and the object.
+fn file(bytes: Vec<u8>, media: &'static str, v: &Verified, what: &str, ext: &str) -> Response {
+    let name = format!("hadamard-{}-{}-{what}.{ext}", v.order(), &v.id()[..12]);
+    let mut resp = (StatusCode::OK, Body::from(bytes)).into_response();
+    let h = resp.headers_mut();
+    h.insert(header::CONTENT_TYPE, HeaderValue::from_static(media));
+    if let Ok(d) = HeaderValue::from_str(&format!("attachment; filename=\"{name}\"")) {
+        h.insert(header::CONTENT_DISPOSITION, d);
+    }
+    resp
+}
+
+fn csv_or_json<T: serde::Serialize>(
+    q: &Q,
+    v: &Verified,
+    what: &str,
+    obj: &T,
+    csv: impl FnOnce(&mut Vec<u8>) -> std::io::Result<()>,
+) -> ApiResult {
+    match q.get("format").map(String::as_str).unwrap_or("json") {
+        "json" => Ok(Json(serde_json::to_value(obj).unwrap_or(Value::Null)).into_response()),
+        "csv" => {
+            let mut buf = Vec::new();
+            csv(&mut buf)
+                .map_err(|e| ApiError::internal(format!("could not write the CSV: {e}")))?;
+            Ok(file(buf, "text/csv; charset=utf-8", v, what, "csv"))
+        }
+        other => Err(ApiError::bad_request(format!(
+            "format must be json or csv here, not `{}`",
+            truncate(other, 40)
+        ))
+        .with("parameter", "format")),
+    }
+}
+
+async fn load(state: &Arc<AppState>, id: &str) -> ApiResult<Arc<Verified>> {
+    let key = id.to_owned();
+    heavy(state, move |c| c.load(&key))
+        .await??
+        .ok_or_else(|| ApiError::not_found(format!("no stored matrix has id {id}")))
+}
+
+/// `GET /api/matrices/{id}/derive/{kind}?…`: one derived object of a stored matrix.
+pub async fn derive(
+    State(state): State<Arc<AppState>>,
+    Path((id, kind)): Path<(String, String)>,
+    Query(q): Query<Q>,
+) -> ApiResult {
+    let id = parse_id(&id)?.to_owned();
+    if !KINDS.contains(&kind.as_str()) {
+        return Err(ApiError::not_found(format!(
+            "`{}` is not a derived object: use one of {}",
+            truncate(&kind, 40),
+            KINDS.join(", ")
+        )));
+    }
+    let v = load(&state, &id).await?;
+    if kind != "ordering" && v.order() > DERIVE_MAX_ORDER {
+        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("derived objects are served up to order {DERIVE_MAX_ORDER}; this matrix has order {} (the command line has no such limit)", v.order())).with("limit", DERIVE_MAX_ORDER));
+    }
+    heavy(&state, move |_| derive_now(&v, &kind, &q)).await?
+}
+
+fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
+    match kind {
+        "screening" => {
+            let levels = match list(q, "levels") {
+                None => None,
+                Some(items) => Some(
+                    items
+                        .iter()
+                        .enumerate()
+                        .map(|(k, p)| {
+                            p.split_once(':')
+                                .map(|(l, h)| (l.to_owned(), h.to_owned()))
+                                .ok_or_else(|| {
+                                    ApiError::bad_request(format!(
+                                        "levels: item {}: `{}` is not LOW:HIGH",
+                                        k + 1,
+                                        truncate(p, 40)
+                                    ))
+                                    .with("parameter", "levels")
+                                })
+                        })
+                        .collect::<ApiResult<Vec<_>>>()?,
+                ),
+            };
+            let columns = match list(q, "columns") {
+                None => None,
+                Some(items) => Some(
+                    items
+                        .iter()
+                        .enumerate()
+                        .map(|(k, c)| {
+                            c.parse::<usize>().map_err(|_| {
+                                ApiError::bad_request(format!(
+                                    "columns: item {}: `{}` is not a column number",
+                                    k + 1,
+                                    truncate(c, 40)
+                                ))
+                                .with("parameter", "columns")
+                            })
+                        })
+                        .collect::<ApiResult<Vec<_>>>()?,
+                ),
+            };
+            let cfg = ScreeningConfig {
+                factors: number(q, "factors")?,
+                columns,
+                names: list(q, "names"),
+                levels,
+                fold_over: flag(q, "fold-over")?,
+                centre_points: number(q, "centre-points")?.unwrap_or(0),
+                seed: number(q, "seed")?,
+            };
+            let d = screening_design(v, &cfg).map_err(bad)?;
+            csv_or_json(q, v, "screening", &d, |b| d.write_csv(b))
+        }
+        "brr" => {
+            let k = number(q, "strata")?.ok_or_else(|| {
+                ApiError::bad_request("give the number of strata as ?strata=k")
+                    .with("parameter", "strata")
+            })?;
+            let r = replication(v, k).map_err(bad)?;
+            csv_or_json(q, v, "brr", &r, |b| r.write_csv(b))
+        }
+        "code" => {
+            let variant = q
+                .get("variant")
+                .map(String::as_str)
+                .unwrap_or("full")
+                .parse()
+                .map_err(bad)?;
+            let c = hadamard_code(v, variant).map_err(bad)?;
+            csv_or_json(q, v, "code", &c, |b| c.write_csv(b))
+        }
+        "symmetric-design" => {
+            let d = symmetric_design(v).map_err(bad)?;
+            csv_or_json(q, v, "symmetric-design", &d, |b| d.write_csv(b))
+        }
+        "sequency" => Ok(Json(sequency_report(v.matrix())).into_response()),
+        _ => ordering(v, q),
+    }
+}
+
+/// `ordering`: the rows in `order=natural|sequency|dyadic`; `scaled=true` for ±1/√n floats.
+fn ordering(v: &Verified, q: &Q) -> ApiResult {
+    let order: RowOrder = q
+        .get("order")
+        .map(String::as_str)
+        .unwrap_or("natural")
+        .parse()
+        .map_err(bad)?;
+    let scaled = flag(q, "scaled")?;
+    let name = q
+        .get("format")
+        .map(String::as_str)
+        .unwrap_or(if scaled { "csv" } else { "pm" });
+    let r = match reorder(v, order) {
+        Ok(r) => r,
+        Err(e) => {
+            return Err(
+                ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, e.to_string())
+                    .with("parameter", e.parameter)
+                    .with(
+                        "sequency",
+                        serde_json::to_value(sequency_report(v.matrix())).unwrap_or(Value::Null),
+                    ),
+            )
+        }
+    };
+    let what = format!(
+        "{}{}",
+        q.get("order").map(String::as_str).unwrap_or("natural"),
+        if scaled { "-scaled" } else { "" }
+    );
+    let mut buf = Vec::new();
+    let m = r.matrix.matrix();
+    let (media, ext) = if scaled {
+        let (f, media, ext) = match name {
+            "csv" => (ScaledFormat::Csv, "text/csv; charset=utf-8", "csv"),
+            "json" => (ScaledFormat::Json, "application/json", "json"),
+            "npy" | "npy-f64" | "npy-f64-scaled" => {
+                (ScaledFormat::Npy, "application/octet-stream", "npy")
+            }
+            other => {
+                return Err(ApiError::bad_request(format!(
+                    "scaled output is floats: format must be csv, json or npy-f64, not `{}`",
+                    truncate(other, 40)
+                ))
+                .with("parameter", "format"))
+            }
+        };
+        let _ = write_scaled(m, f, &mut buf);
+        (media, ext)
+    } else {
+        let f: WriteFormat = name.parse().map_err(|_| {
+            ApiError::bad_request(format!(
+                "unknown format `{}`: use pm, csv, bits, json, npy, npy-f64 or png",
+                truncate(name, 40)
+            ))
+            .with("parameter", "format")
+        })?;
+        if let WriteFormat::NpyF64 { scaled: true } = f {
+            return Err(
+                ApiError::bad_request("ask for scaled output with scaled=true")
+                    .with("parameter", "format"),
+            );
+        }
+        formats::write(m, &f, &mut buf);
+        (f.media_type(), f.extension())
+    };
+    let mut resp = file(buf, media, v, &what, ext);
+    if let Ok(h) = HeaderValue::from_str(r.matrix.id()) {
+        resp.headers_mut().insert("x-matrix-id", h);
+    }
+    resp.headers_mut().insert(
+        "x-scaled",
+        HeaderValue::from_static(if scaled {
+            "1/sqrt(n); not normalised"
+        } else {
+            "no"
+        }),
+    );
+    Ok(resp)
+}
+
+/// `GET /api/brr?strata=k`: the replicates from the catalogue's matrix of the smallest order
+/// greater than k that this program builds, with the smallest known order beside it.
+pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiResult {
+    let k: usize = number(&q, "strata")?.ok_or_else(|| {
+        ApiError::bad_request("give the number of strata as ?strata=k").with("parameter", "strata")
+    })?;
+    if k == 0 || k >= DERIVE_MAX_ORDER {
+        return Err(
+            ApiError::bad_request(format!("strata must be 1 to {}", DERIVE_MAX_ORDER - 1))
+                .with("parameter", "strata"),
+        );
+    }
+    let (known, built) = heavy(&state, move |_| {
+        (
+            route::smallest_known_at_least(k as u64 + 1).map(|i| i.order),
+            route::smallest_constructible_at_least(k as u64 + 1).map(|i| i.order),
+        )
+    })
+    .await?;
+    let Some(n) = built else {
+        return Err(ApiError::not_found(format!(
+            "no order greater than {k} is within this program's reach"
+        )));
+    };
+    let entry = catalogue_entry(&state, n).await?;
+    let id = entry["id"].as_str().unwrap_or_default().to_owned();
+    let v = load(&state, &id).await?;
+    let source = v.clone();
+    let r = heavy(&state, move |_| replication(&source, k))
+        .await?
+        .map_err(bad)?;
+    if q.get("format").map(String::as_str) == Some("csv") {
+        let mut buf = Vec::new();
+        r.write_csv(&mut buf)
+            .map_err(|e| ApiError::internal(e.to_string()))?;
+        return Ok(file(buf, "text/csv; charset=utf-8", &v, "brr", "csv"));
+    }
+    let mut body = serde_json::to_value(&r).unwrap_or(Value::Null);
+    if let Value::Object(o) = &mut body {
+        o.insert("smallest_known_order".into(), json!(known));
+        o.insert("smallest_constructible_order".into(), json!(n));
+        o.insert("url".into(), json!(format!("/m/{id}")));
+    }
+    Ok(Json(body).into_response())
+}
+
+/// `GET /api/equivalence?a=ID&b=ID[&budget=N]`: are two stored matrices equivalent?
+pub async fn equivalent(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiResult {
+    let get = |name: &str| {
+        q.get(name).ok_or_else(|| {
+            ApiError::bad_request(format!(
+                "give both matrix ids as ?a=ID&b=ID ({name} is missing)"
+            ))
+            .with("parameter", name)
+        })
+    };
+    let a = parse_id(get("a")?)?.to_owned();
+    let b = parse_id(get("b")?)?.to_owned();
+    let (va, vb) = (load(&state, &a).await?, load(&state, &b).await?);
+    let n = va.order();
+    if n > EQUIVALENCE_MAX_ORDER {
+        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("equivalence is searched here up to order {EQUIVALENCE_MAX_ORDER}; `hadamard equiv` has no such limit")).with("limit", EQUIVALENCE_MAX_ORDER));
+    }
+    let cap = (EQUIVALENCE_WORK / (n as u64 * n as u64).max(1)).max(1);
+    let budget = number::<u64>(&q, "budget")?.unwrap_or(DEFAULT_NODE_BUDGET.min(cap));
+    if budget > cap {
+        return Err(ApiError::bad_request(format!(
+            "budget is at most {cap} nodes at order {n} on this server"
+        ))
+        .with("parameter", "budget")
+        .with("limit", cap));
+    }
+    let r = heavy(&state, move |_| equivalence(&va, &vb, budget))
+        .await?
+        .map_err(bad)?;
+    Ok(Json(r).into_response())
+}
