@@ -35,23 +35,27 @@ def run(*args, timeout=None):
     return subprocess.run([BIN, *args], capture_output=True, text=True, timeout=timeout)
 
 
-def leaves(tree):
-    if not tree["children"]:
+def gaps(tree):
+    """The unbuildable nodes whose children are all buildable: what the route lacks."""
+    if tree["buildable"]:
+        return
+    if all(c["buildable"] for c in tree["children"]):
         yield tree
     for c in tree["children"]:
-        yield from leaves(c)
+        yield from gaps(c)
 
 
 def lacks(route):
     out = []
-    for leaf in leaves(route["tree"]):
-        if leaf["buildable"]:
-            continue
-        kind = leaf["params"].get("kind", leaf["method"])
-        text = KINDS.get(kind, f"{kind} {{i}}").format(i=leaf["order"])
+    for node in gaps(route["tree"]):
+        kind = node["params"].get("kind", node["method"])
+        if kind in KINDS:
+            text = KINDS[kind].format(i=node["order"])
+        else:
+            text = f"the {kind} construction of order {node['order']} (not implemented here)"
         if text not in out:
             out.append(text)
-    return "; ".join(out) or "a construction this program does not implement"
+    return "; ".join(out) or "—"
 
 
 def multiplier_report(v):
