@@ -77,7 +77,12 @@ pub fn run(args: ServeArgs) -> ExitCode {
 fn init_logging(json: bool) {
     use tracing_subscriber::EnvFilter;
     let filter = EnvFilter::try_from_default_env().unwrap_or_else(|_| EnvFilter::new("info"));
-    let builder = tracing_subscriber::fmt().with_env_filter(filter).with_writer(std::io::stderr);
+    // Colours only for a person at a terminal; a log file or a collector gets plain text.
+    let colour = std::io::IsTerminal::is_terminal(&std::io::stderr());
+    let builder = tracing_subscriber::fmt()
+        .with_env_filter(filter)
+        .with_writer(std::io::stderr)
+        .with_ansi(colour);
     if json {
         builder.json().init();
     } else {
