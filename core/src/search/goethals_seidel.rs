@@ -542,6 +542,14 @@ mod tests {
         assert_eq!(GsSearch::with_multiplier(13, 3).map(|s| s.degrees_of_freedom()), Ok(5));
     }
 
+    /// A result line read back by the seed parser, which checks its defining identity.
+    fn parsed(line: &str) -> crate::seed::SeedCatalogue {
+        let mut cat = crate::seed::SeedCatalogue::default();
+        cat.add_text("result", &format!("{line} | test; 2026-12-02"));
+        assert!(cat.rejected.is_empty(), "{:?}", cat.rejected);
+        cat
+    }
+
     #[test]
     fn multipliers_reach_lengths_the_plain_search_cannot() {
         // Williamson matrices of order 43 exist (constructions.md §3 [recalled]); with the
@@ -550,9 +558,7 @@ mod tests {
         let found = run_to_end(&GsSearch::with_multiplier(43, 7).unwrap(), Some(1));
         assert!(!found.is_empty());
         for line in &found {
-            let mut cat = crate::seed::SeedCatalogue::default();
-            cat.add_text("result", &format!("{line} | test; 2026-12-02"));
-            assert!(cat.rejected.is_empty(), "{:?}", cat.rejected);
+            let cat = parsed(line);
             assert_eq!(cat.williamson.len(), 1, "{line}");
             assert!(cat.williamson[0].data.is_valid() && cat.williamson[0].data.m() == 43);
         }
@@ -561,9 +567,7 @@ mod tests {
         let found = run_to_end(&GsSearch::with_multiplier(73, 2).unwrap(), Some(1));
         assert!(!found.is_empty());
         for line in &found {
-            let mut cat = crate::seed::SeedCatalogue::default();
-            cat.add_text("result", &format!("{line} | test; 2026-12-02"));
-            assert!(cat.rejected.is_empty(), "{:?}", cat.rejected);
+            let cat = parsed(line);
             assert_eq!(cat.goethals_seidel.len(), 1, "{line}");
             assert!(cat.goethals_seidel[0].data.is_valid() && cat.goethals_seidel[0].data.v() == 73);
         }
