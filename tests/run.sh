@@ -16,6 +16,7 @@ step() {
 
 # One release build serves every suite: the tests are mostly arithmetic on large matrices.
 step "cargo test (workspace, release)" cargo test --workspace --release
+step "core in wasm32 with simd128 (Node, WASI)" bash tests/wasm.sh
 export HADAMARD_BIN="$PWD/target/release/hadamard"
 if [ -d tests/python ]; then
   step "cross-checks (pytest: numpy, scipy, galois, sympy)" python3 -m pytest -q tests/python
