@@ -215,6 +215,7 @@ try {
     writeFileSync(big, sylvester(11));
     await page.setInputFiles('#matrix-file', big);
     eq(await verdict(page), 'hadamard', 'data-verdict');
+    assert(Number(await page.getAttribute('#verdict', 'data-workers')) >= 1, 'checked on the Web Workers');
     const worst = await page.evaluate(() => { clearInterval(window.__beat); return Math.max(...window.__gaps); });
     // The read is one step; the check yields every ~25 ms.
     assert(worst < 500, `the page stalled for ${worst.toFixed(0)} ms`);
@@ -226,6 +227,21 @@ try {
     await page.focus('.picture canvas');
     await page.keyboard.press('ArrowDown');
     assert((await page.textContent('.picture .caption')).includes('rows 897–1408'), 'arrow key pans');
+  });
+
+  await test('without Web Workers, order 2048 is checked on the page, in slices', async (page) => {
+    await page.addInitScript(() => { delete window.Worker; });
+    await page.goto(server.url + '/verify');
+    await page.evaluate(() => {
+      window.__gaps = [];
+      let last = performance.now();
+      window.__beat = setInterval(() => { const t = performance.now(); window.__gaps.push(t - last); last = t; }, 20);
+    });
+    await page.setInputFiles('#matrix-file', join(work, 'sylvester2048.pm'));
+    eq(await verdict(page), 'hadamard', 'data-verdict');
+    eq(await page.getAttribute('#verdict', 'data-workers'), '0', 'workers');
+    const worst = await page.evaluate(() => { clearInterval(window.__beat); return Math.max(...window.__gaps); });
+    assert(worst < 500, `the page stalled for ${worst.toFixed(0)} ms`);
   });
 
   // The browser's report against the CLI's on failing matrices: the page checks in wasm with
