@@ -10,6 +10,8 @@ import { join } from 'node:path';
 import { bin, startServer, launchBrowser } from './lib.mjs';
 
 const orders = (process.env.BENCH_ORDERS || '1024,2048,4096').split(',').map(Number);
+// BENCH_NO_WORKERS=1 hides Web Workers from the page, so it checks on its own thread.
+const noWorkers = process.env.BENCH_NO_WORKERS === '1';
 const reps = Number(process.env.BENCH_REPS || 3);
 const dir = mkdtempSync(join(tmpdir(), 'hadamard-bench-'));
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
@@ -62,6 +64,7 @@ const browser = await launchBrowser();
 const results = [];
 try {
   const page = await browser.newPage();
+  if (noWorkers) await page.addInitScript(() => { delete window.Worker; });
   page.on('pageerror', (e) => { throw e; });
   await page.goto(server.url + '/verify');
   await page.waitForSelector('#matrix-file');

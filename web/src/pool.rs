@@ -27,8 +27,9 @@ use web_sys::{MessageEvent, Worker, WorkerOptions, WorkerType};
 const SCRIPT: &str = "/pkg/check-worker.js";
 /// How long the workers may take to start before the page checks on its own.
 const START_MS: i32 = 15_000;
-/// Jobs kept in flight per worker, so a worker never waits for the page between two jobs.
-const IN_FLIGHT: usize = 2;
+/// Jobs queued per worker, so that a worker does not wait for the page between jobs even when
+/// the page's thread is kept off the CPU for a while (a busy machine).
+const IN_FLIGHT: usize = 4;
 
 /// Started workers, with the channel their answers arrive on.
 pub struct Pool {
