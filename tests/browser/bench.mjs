@@ -3,6 +3,8 @@
 // page's Web Workers, below that on the page in ~25 ms slices), against native
 // `hadamard verify` and, when python3 has numpy, numpy's H·Hᵀ, in the same run. Prints the load
 // average before and after, and a Markdown table for docs/performance.md ("In the browser").
+// "Workers busy" is the time the workers spent on their jobs in all: against the check's wall
+// time it shows how much of two cores they got.
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
@@ -74,6 +76,7 @@ try {
     writeFileSync(path, text);
     const read = [], check = [], stall = [];
     let workers = 0, kernel = '';
+    const busy = [];
     for (let r = 0; r < reps; r++) {
       await page.evaluate(() => {
         window.__gaps = [];
@@ -93,11 +96,12 @@ try {
       if ((await v.getAttribute('data-verdict')) !== 'hadamard') throw new Error(`order ${n} was not verified`);
       workers = Number(await v.getAttribute('data-workers'));
       kernel = await v.getAttribute('data-kernel');
+      busy.push(Number(await v.getAttribute('data-workers-ms')));
       read.push(Number(await v.getAttribute('data-read-ms')));
       check.push(Number(await v.getAttribute('data-check-ms')));
       stall.push(await page.evaluate(() => { clearInterval(window.__beat); return Math.max(...window.__gaps); }));
     }
-    const row = { n, workers, kernel, read: median(read), check: median(check), checks: check, stall: median(stall), native: native(path), numpy: numpy(path) };
+    const row = { n, workers, kernel, read: median(read), check: median(check), checks: check, workerMs: median(busy), stall: median(stall), native: native(path), numpy: numpy(path) };
     results.push(row);
     console.error(JSON.stringify(row));
   }
@@ -107,8 +111,8 @@ try {
 }
 console.error(`load average after: ${load()}`);
 const f = (x) => (x == null ? '—' : x >= 100 ? x.toFixed(0) : x.toFixed(1));
-console.log('| n | workers | browser: read (ms) | browser: check (ms) | longest pause (ms) | native check (ms) | browser / native | numpy H·Hᵀ (ms) | numpy / browser |');
-console.log('|---|---|---|---|---|---|---|---|---|');
+console.log('| n | workers | browser: read (ms) | browser: check (ms) | workers busy (ms) | longest pause (ms) | native check (ms) | browser / native | numpy H·Hᵀ (ms) | numpy / browser |');
+console.log('|---|---|---|---|---|---|---|---|---|---|');
 for (const r of results) {
-  console.log(`| ${r.n} | ${r.workers} | ${f(r.read)} | ${f(r.check)} | ${f(r.stall)} | ${f(r.native)} | ${(r.check / r.native).toFixed(1)}× | ${f(r.numpy)} | ${r.numpy ? (r.numpy / r.check).toFixed(1) + '×' : '—'} |`);
+  console.log(`| ${r.n} | ${r.workers} | ${f(r.read)} | ${f(r.check)} | ${r.workers ? f(r.workerMs) : '—'} | ${f(r.stall)} | ${f(r.native)} | ${(r.check / r.native).toFixed(1)}× | ${f(r.numpy)} | ${r.numpy ? (r.numpy / r.check).toFixed(1) + '×' : '—'} |`);
 }

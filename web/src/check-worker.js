@@ -1,7 +1,8 @@
 // A Web Worker of the verify page (web/src/pool.rs): it runs core's exact check, compiled to
 // wasm (web/src/worker.rs, served as /pkg/check.js and /pkg/check_bg.wasm), one job at a time.
 // In:  {kind: 'load', rows, cols, words: BigUint64Array} | {kind: 'share', share, cap} | {kind: 'facts'}
-// Out: {kind: 'ready'} once loaded, then {kind: 'share' | 'facts', json} per job, or {kind: 'error', message}.
+// Out: {kind: 'ready'} once loaded, then {kind: 'share' | 'facts', json, ms} per job (ms: the time
+// it took), or {kind: 'error', message}.
 import init, { load, check_share, facts } from '/pkg/check.js';
 
 const ready = init({ module_or_path: '/pkg/check_bg.wasm' });
@@ -16,9 +17,13 @@ self.onmessage = async ({ data }) => {
     if (data.kind === 'load') {
       load(data.rows, data.cols, data.words);
     } else if (data.kind === 'share') {
-      self.postMessage({ kind: 'share', json: check_share(data.share, data.cap) });
+      const t = performance.now();
+      const json = check_share(data.share, data.cap);
+      self.postMessage({ kind: 'share', json, ms: performance.now() - t });
     } else if (data.kind === 'facts') {
-      self.postMessage({ kind: 'facts', json: facts() });
+      const t = performance.now();
+      const json = facts();
+      self.postMessage({ kind: 'facts', json, ms: performance.now() - t });
     }
   } catch (e) {
     self.postMessage({ kind: 'error', message: String((e && e.message) || e) });

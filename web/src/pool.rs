@@ -234,15 +234,17 @@ impl Pool {
     }
 
     /// Checks `m` on the workers, calling `progress` with the fraction of pairs merged after
-    /// each answer. Gives `None` when `still_wanted` turns false (the pool is then dropped, and
-    /// with it the workers and their unfinished jobs).
+    /// each answer. Gives the report, the milliseconds the workers spent on their jobs in all
+    /// (for the benchmark: against the wall time it shows how well the cores were used), and
+    /// the pool back; `None` when `still_wanted` turns false (the pool is then dropped, and with
+    /// it the workers and their unfinished jobs).
     pub async fn check(
         mut self,
         m: &Matrix,
         cap: usize,
         progress: impl Fn(f64),
         still_wanted: impl Fn() -> bool,
-    ) -> Option<Result<(Report, Pool), String>> {
+    ) -> Option<Result<(Report, f64, Pool), String>> {
         let mut merge = Merge::new(m, cap);
         // Popped from the end: the facts first, then the shares from the largest down.
         let mut jobs: Vec<Job> = (0..merge.split().shares()).map(Job::Share).collect();
@@ -269,12 +271,17 @@ impl Pool {
             }
         }
         let mut facts: Option<Facts> = None;
+        let mut busy_ms = 0.0;
         while !(merge.is_complete() && facts.is_some()) {
             let (k, data) = self.inbox.next().await?;
             if !still_wanted() {
                 return None;
             }
             let json = text(&data, "json");
+            busy_ms += Reflect::get(&data, &"ms".into())
+                .ok()
+                .and_then(|v| v.as_f64())
+                .unwrap_or(0.0);
             let merged = match kind(&data).as_str() {
                 "share" => serde_json::from_str::<Share>(&json)
                     .map_err(|e| e.to_string())
@@ -299,7 +306,7 @@ impl Pool {
         Some(
             merge
                 .finish(facts)
-                .map(|r| (r, self))
+                .map(|r| (r, busy_ms, self))
                 .map_err(|e| e.to_string()),
         )
     }

@@ -69,8 +69,10 @@ struct Outcome {
     /// Time to read the input, and to check it, in milliseconds.
     read_ms: f64,
     millis: f64,
-    /// How many Web Workers checked it (0: the page itself).
+    /// How many Web Workers checked it (0: the page itself), and the time they spent on it in
+    /// all, in milliseconds.
     workers: usize,
+    workers_ms: f64,
 }
 
 #[derive(Clone)]
@@ -153,6 +155,7 @@ async fn check(
     let m = parsed.matrix;
     let start = now_ms();
     let mut workers = 0;
+    let mut workers_ms = 0.0;
     let mut on_workers = None;
     if pool::worth_it(&m) {
         if let Some(p) = pool::take().await {
@@ -160,8 +163,9 @@ async fn check(
             let progress = |f| phase.set(Phase::Checking(f));
             match p.check(&m, PAIR_CAP, progress, &still_wanted).await {
                 None => return,
-                Some(Ok((report, p))) => {
+                Some(Ok((report, busy, p))) => {
                     pool::give_back(p);
+                    workers_ms = busy;
                     on_workers = Some(report);
                 }
                 Some(Err(e)) => {
@@ -225,6 +229,7 @@ async fn check(
         read_ms,
         millis,
         workers,
+        workers_ms,
     }));
 }
 
@@ -409,6 +414,10 @@ pub fn VerifyPanel(
         Phase::Done(o) => Some(o.workers.to_string()),
         _ => None,
     };
+    let workers_ms = move || match phase.get() {
+        Phase::Done(o) if o.workers > 0 => Some(format!("{:.1}", o.workers_ms)),
+        _ => None,
+    };
     let verdict_class = move || match verdict_attr() {
         Some(v) => format!("verdict {v}"),
         None => "verdict".to_string(),
@@ -470,7 +479,7 @@ pub fn VerifyPanel(
 
             <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr
                 data-read-ms=move || timing(0) data-check-ms=move || timing(1)
-                data-kernel=kernel data-workers=workers>
+                data-kernel=kernel data-workers=workers data-workers-ms=workers_ms>
                 {move || match phase.get() {
                     Phase::Idle => view! { <p class="waiting">"No matrix checked yet."</p> }.into_any(),
                     Phase::Reading => view! { <p class="waiting">"Reading…"</p> }.into_any(),
