@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# Runs every test: the Rust suites (unit, CLI, HTTP over loopback with a real SQLite file), the
-# cross-checks against numpy/scipy/galois/sympy, and the browser tests in headless Chromium.
+# Runs every test: the Rust suites (unit, CLI, HTTP over loopback with a real SQLite file), core's
+# unit tests in wasm32 with simd128 (Node), the cross-checks against numpy/scipy/galois/sympy,
+# and the browser tests in headless Chromium.
 # Installs what is missing first (tests/setup.sh). The last line is `N passed, N failed`.
 set -uo pipefail
 cd "$(dirname "$0")/.."
@@ -16,6 +17,7 @@ step() {
 
 # One release build serves every suite: the tests are mostly arithmetic on large matrices.
 step "cargo test (workspace, release)" cargo test --workspace --release
+step "core in wasm32 with simd128 (Node, WASI)" bash tests/wasm.sh
 export HADAMARD_BIN="$PWD/target/release/hadamard"
 if [ -d tests/python ]; then
   step "cross-checks (pytest: numpy, scipy, galois, sympy)" python3 -m pytest -q tests/python

@@ -8,6 +8,10 @@ cd "$(dirname "$0")/.."
 if ! rustup target list --installed 2>/dev/null | grep -qx wasm32-unknown-unknown; then
   rustup target add wasm32-unknown-unknown
 fi
+# wasm32-wasip1, to run core's unit tests in Node's V8 with simd128 (tests/wasm.sh).
+if ! rustup target list --installed 2>/dev/null | grep -qx wasm32-wasip1; then
+  rustup target add wasm32-wasip1
+fi
 
 # Debian's Chromium for the browser tests.
 if ! command -v chromium >/dev/null 2>&1; then

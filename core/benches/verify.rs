@@ -6,7 +6,8 @@
 //! the ratio is what to compare across changes; absolute times depend on the machine.
 //!
 //! numpy is run as `python3` with a small script; if it is missing, the numpy column says so
-//! and only our kernels are compared with each other.
+//! and only our kernels are compared with each other. `bash tests/wasm.sh bench` runs this
+//! benchmark in wasm32 with simd128 under Node (one thread, no numpy: WASI cannot start it).
 
 use hadamard_core::verify::{force_kernel, is_hadamard, kernel_name, verify};
 use hadamard_core::Matrix;
@@ -70,7 +71,7 @@ fn main() {
         let h = sylvester(n);
         let reps = if n >= 4096 { 5 } else { 11 };
         let np = numpy_secs(n, if n >= 4096 { 3 } else { 5 });
-        for kernel in ["scalar", "popcnt", "avx512", "auto"] {
+        for kernel in ["scalar", "popcnt", "avx512", "simd128", "auto"] {
             if !force_kernel(kernel) {
                 continue;
             }

@@ -28,6 +28,23 @@ pub const fn words_for(cols: usize) -> usize {
     cols.div_ceil(64)
 }
 
+/// The canonical text of eight entries, for each byte of a row's bits (bit 0 first; set = −1).
+const CANONICAL_BYTE: [[u8; 8]; 256] = {
+    let mut t = [[b'+'; 8]; 256];
+    let mut b = 0;
+    while b < 256 {
+        let mut k = 0;
+        while k < 8 {
+            if (b >> k) & 1 == 1 {
+                t[b][k] = b'-';
+            }
+            k += 1;
+        }
+        b += 1;
+    }
+    t
+};
+
 impl Matrix {
     /// The all-(+1) matrix of the given shape.
     pub fn ones(rows: usize, cols: usize) -> Matrix {
@@ -321,7 +338,14 @@ impl Matrix {
     pub fn write_canonical_row(&self, i: usize, out: &mut Vec<u8>) {
         let row = self.row_words(i);
         out.reserve(self.cols + 1);
-        for j in 0..self.cols {
+        // Eight entries at a time, one byte of the row (lowest bit first) to eight characters:
+        // the id hashes this text, so it is on the path of every verification.
+        let bytes = self.cols / 8;
+        for k in 0..bytes {
+            let byte = (row[k / 8] >> (8 * (k % 8))) as u8;
+            out.extend_from_slice(&CANONICAL_BYTE[byte as usize]);
+        }
+        for j in bytes * 8..self.cols {
             out.push(if (row[j / 64] >> (j % 64)) & 1 == 1 { b'-' } else { b'+' });
         }
         out.push(b'\n');

@@ -7,14 +7,20 @@
 //! only from this pass over all n(n−1)/2 pairs.
 //!
 //! The pairs are visited in 4×4 tiles of rows, so each loaded word serves four products and the
-//! sixteen running popcounts stay in registers. The kernel is chosen at run time:
+//! sixteen running popcounts stay in registers. The kernel is chosen at run time on x86-64 and
+//! at build time in wasm32:
 //! - x86-64 with AVX-512 VPOPCNTDQ: eight words per instruction;
 //! - x86-64 with POPCNT: the scalar tile with the hardware instruction;
-//! - anything else, including wasm32: the same scalar tile, which compiles to `i64.popcnt`.
+//! - wasm32 built with `simd128`: two words per `v128`, counted by `i8x16.popcnt` into byte
+//!   counters that are widened every 31 steps, before a byte could overflow;
+//! - anything else, including wasm32 without `simd128`: the scalar tile (`i64.popcnt`).
 //!
-//! No build flag is needed for any of them (`is_x86_feature_detected!`). Natively the tiles are
-//! spread over threads; in wasm32 they run on the one thread, in steps of bounded size, so a
-//! page can yield between them ([`Progressive`]).
+//! No build flag is needed natively (`is_x86_feature_detected!`); wasm32 has no run-time
+//! detection, so the simd128 kernel exists only when the crate is compiled with
+//! `-C target-feature=+simd128` (the browser app is). Natively the tiles are spread over
+//! threads. In wasm32 they run on the caller's thread, either in steps of bounded size so that
+//! a page can yield between them ([`Progressive`]), or cut into shares that Web Workers check
+//! and the page merges exactly ([`Split`], [`check_share`], [`Merge`]).
 //!
 //! [`Verified`] is the only proof this crate accepts that a matrix is Hadamard: it can be made
 //! only by [`certify`], which runs the exact check.
@@ -160,25 +166,30 @@ pub fn verify_with_cap(m: &Matrix, cap: usize) -> Report {
 }
 
 fn finish_report(m: &Matrix, tally: PairTally) -> Report {
+    report_from(facts(m), tally)
+}
+
+fn report_from(facts: Facts, tally: PairTally) -> Report {
+    let Facts { order, cols, sha256, properties } = facts;
     let total = tally.total;
     let pairs = tally.into_pairs();
     let mut failures = Vec::new();
-    if !m.is_square() {
+    if order != cols {
         failures.push(Failure::NotSquare);
     }
-    if !order_possible(m.rows()) {
+    if !order_possible(order) {
         failures.push(Failure::ImpossibleOrder);
     }
     if total > 0 {
         failures.push(Failure::RowsNotOrthogonal);
     }
     Report {
-        order: m.rows(),
-        cols: m.cols(),
+        order,
+        cols,
         hadamard: failures.is_empty(),
         failures,
-        sha256: matrix_id(m),
-        properties: properties(m),
+        sha256,
+        properties,
         failing_pairs: pairs,
         failing_pairs_total: total,
         check: format!("{CHECK_NAME}/v{CHECK_VERSION}"),
@@ -383,6 +394,13 @@ fn tile(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
             x86::Level::Baseline => {}
         }
     }
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        if !wasm_simd::scalar_forced() {
+            wasm_simd::tile_simd128(m, i0, j0, acc);
+            return;
+        }
+    }
     tile_scalar(m, i0, j0, acc);
 }
 
@@ -415,6 +433,12 @@ pub fn kernel_name() -> &'static str {
             x86::Level::Avx512 => return "avx512-vpopcntdq-tiled",
             x86::Level::Popcnt => return "popcnt-tiled",
             x86::Level::Baseline => {}
+        }
+    }
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        if !wasm_simd::scalar_forced() {
+            return "wasm32-simd128-tiled";
         }
     }
     #[cfg(target_arch = "wasm32")]
@@ -545,7 +569,8 @@ mod x86 {
     }
 }
 
-/// Selects the verification kernel: `"auto"` (detect), `"scalar"`, `"popcnt"` or `"avx512"`.
+/// Selects the verification kernel: `"auto"` (the best here), `"scalar"`, `"popcnt"` or
+/// `"avx512"` on x86-64, `"simd128"` in wasm32 built with simd128.
 /// Benchmarks use this to compare kernels in one run; the verdict never depends on it.
 /// Returns false when the name is unknown or the CPU lacks the kernel.
 pub fn force_kernel(name: &str) -> bool {
@@ -564,9 +589,94 @@ pub fn force_kernel(name: &str) -> bool {
         x86::force(l);
         true
     }
-    #[cfg(not(target_arch = "x86_64"))]
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        match name {
+            "auto" | "simd128" => wasm_simd::force_scalar(false),
+            "scalar" => wasm_simd::force_scalar(true),
+            _ => return false,
+        }
+        true
+    }
+    #[cfg(not(any(target_arch = "x86_64", all(target_arch = "wasm32", target_feature = "simd128"))))]
     {
         matches!(name, "auto" | "scalar")
+    }
+}
+
+#[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+mod wasm_simd {
+    use super::{Matrix, T};
+    use std::arch::wasm32::*;
+    use std::sync::atomic::{AtomicBool, Ordering};
+
+    static SCALAR: AtomicBool = AtomicBool::new(false);
+
+    /// True when a test or benchmark asked for the scalar tile.
+    #[inline]
+    pub fn scalar_forced() -> bool {
+        SCALAR.load(Ordering::Relaxed)
+    }
+
+    pub fn force_scalar(on: bool) {
+        SCALAR.store(on, Ordering::Relaxed);
+    }
+
+    /// Steps of one `v128` (two words) before the byte counters are widened: a byte of
+    /// `i8x16.popcnt` is at most 8, and 31 · 8 = 248 still fits in a byte.
+    const STEPS_PER_FLUSH: usize = 31;
+
+    /// The sum of the sixteen bytes of `v`.
+    #[inline(always)]
+    fn byte_sum(v: v128) -> u32 {
+        let s = i32x4_extadd_pairwise_u16x8(i16x8_extadd_pairwise_u8x16(v));
+        (i32x4_extract_lane::<0>(s) + i32x4_extract_lane::<1>(s) + i32x4_extract_lane::<2>(s) + i32x4_extract_lane::<3>(s))
+            as u32
+    }
+
+    /// The 4×4 tile of popcounts of rᵢ ⊕ rⱼ, two words at a time; an odd last word is counted
+    /// with `i64.popcnt`.
+    #[inline(always)]
+    pub fn tile_simd128(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
+        let w = m.words_per_row();
+        let a = [m.row_words(i0), m.row_words(i0 + 1), m.row_words(i0 + 2), m.row_words(i0 + 3)];
+        let b = [m.row_words(j0), m.row_words(j0 + 1), m.row_words(j0 + 2), m.row_words(j0 + 3)];
+        let steps = w / 2;
+        let load = |row: &[u64], k: usize| -> v128 {
+            let pair = &row[2 * k..2 * k + 2];
+            // SAFETY: `pair` is two initialised u64, 16 bytes; v128_load has no alignment
+            // requirement.
+            unsafe { v128_load(pair.as_ptr() as *const v128) }
+        };
+        let mut s = [[0u32; T]; T];
+        let mut k = 0;
+        while k < steps {
+            let end = (k + STEPS_PER_FLUSH).min(steps);
+            let mut bytes = [[u8x16_splat(0); T]; T];
+            while k < end {
+                let x = [load(a[0], k), load(a[1], k), load(a[2], k), load(a[3], k)];
+                for c in 0..T {
+                    let y = load(b[c], k);
+                    for r in 0..T {
+                        bytes[r][c] = u8x16_add(bytes[r][c], i8x16_popcnt(v128_xor(x[r], y)));
+                    }
+                }
+                k += 1;
+            }
+            for r in 0..T {
+                for c in 0..T {
+                    s[r][c] += byte_sum(bytes[r][c]);
+                }
+            }
+        }
+        if w % 2 == 1 {
+            for r in 0..T {
+                for c in 0..T {
+                    s[r][c] += (a[r][w - 1] ^ b[c][w - 1]).count_ones();
+                }
+            }
+        }
+        *acc = s;
     }
 }
 
@@ -624,6 +734,218 @@ impl<'a> Progressive<'a> {
     }
 }
 
+/// The exact check cut into shares, for callers that run them elsewhere and merge the results:
+/// the browser hands them to Web Workers, each holding its own copy of the matrix.
+///
+/// Share `s` is every pair (i, j), i < j, whose row j lies in the `s`-th panel of rows (the
+/// panels [`verify`] itself uses), so the shares are disjoint and together hold all
+/// n(n−1)/2 pairs. [`Merge`] accepts each share once and makes a report only when it has all
+/// of them.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Split {
+    order: usize,
+    cols: usize,
+    panel: usize,
+    shares: usize,
+}
+
+impl Split {
+    /// How the check of `m` is cut.
+    pub fn of(m: &Matrix) -> Split {
+        let panel = panel_rows(m);
+        Split { order: m.rows(), cols: m.cols(), panel, shares: m.rows().div_ceil(panel) }
+    }
+
+    /// The number of shares (at least one for a non-empty matrix).
+    pub fn shares(&self) -> usize {
+        self.shares
+    }
+
+    /// The number of row pairs in share `s`; later shares hold more.
+    pub fn pairs_in(&self, s: usize) -> u64 {
+        panel_pairs(self.order, self.panel, s)
+    }
+
+    /// The number of row pairs in all.
+    pub fn pairs(&self) -> u64 {
+        let n = self.order as u64;
+        n * n.saturating_sub(1) / 2
+    }
+}
+
+/// What the exact check found in one share. Serialisable, so it can cross from a Web Worker.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Share {
+    /// Which share of the [`Split`].
+    pub share: usize,
+    /// The shape of the matrix checked, so a share of another matrix is refused.
+    pub order: usize,
+    /// Its number of columns.
+    pub cols: usize,
+    /// The first failing pairs of the share in (i, j) order, at most the cap.
+    pub failing_pairs: Vec<FailingPair>,
+    /// How many pairs of the share fail in all.
+    pub failing_pairs_total: u64,
+    /// The kernel that checked it.
+    pub kernel: String,
+}
+
+/// Runs the exact check on share `s` of `m`'s [`Split`], keeping at most `cap` failing pairs.
+///
+/// # Panics
+/// When `s` is not a share of the split (`s >= Split::of(m).shares()`).
+pub fn check_share(m: &Matrix, s: usize, cap: usize) -> Share {
+    let split = Split::of(m);
+    assert!(s < split.shares, "share {s} of a split into {}", split.shares);
+    let mut tally = PairTally::new(cap);
+    panel_pass(m, split.panel, s, &mut tally);
+    let failing_pairs_total = tally.total;
+    Share {
+        share: s,
+        order: m.rows(),
+        cols: m.cols(),
+        failing_pairs: tally.into_pairs(),
+        failing_pairs_total,
+        kernel: kernel_name().to_string(),
+    }
+}
+
+/// The id and properties of a matrix: the part of a [`Report`] that is not the pair check,
+/// so that it too can run in a worker while the shares are checked.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Facts {
+    /// The shape they were computed for.
+    pub order: usize,
+    /// Its number of columns.
+    pub cols: usize,
+    /// The matrix id.
+    pub sha256: String,
+    /// The properties.
+    pub properties: Properties,
+}
+
+/// The id and properties of `m`.
+pub fn facts(m: &Matrix) -> Facts {
+    Facts { order: m.rows(), cols: m.cols(), sha256: matrix_id(m), properties: properties(m) }
+}
+
+/// Why [`Merge`] refused a share or could not finish.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum MergeError {
+    /// The share or facts belong to a matrix of another shape.
+    OtherMatrix,
+    /// There is no such share in the split.
+    NoSuchShare(usize),
+    /// That share was merged before.
+    Again(usize),
+    /// Shares are missing: the first of them, and how many.
+    Missing { first: usize, count: usize },
+}
+
+impl std::fmt::Display for MergeError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            MergeError::OtherMatrix => write!(f, "a result for a matrix of another shape"),
+            MergeError::NoSuchShare(s) => write!(f, "share {s} is not part of the split"),
+            MergeError::Again(s) => write!(f, "share {s} was merged twice"),
+            MergeError::Missing { first, count } => write!(f, "{count} shares are missing, the first is {first}"),
+        }
+    }
+}
+
+impl std::error::Error for MergeError {}
+
+/// The shares of a [`Split`] merged into one report, exactly: the total is the sum of the
+/// shares' totals, and the listed pairs are the first `cap` of all shares together, in (i, j)
+/// order, whatever order the shares arrive in.
+pub struct Merge {
+    split: Split,
+    merged: Vec<bool>,
+    left: usize,
+    pairs_done: u64,
+    tally: PairTally,
+    kernel: Option<String>,
+}
+
+impl Merge {
+    /// Starts merging the shares of `m`'s split, keeping at most `cap` failing pairs.
+    pub fn new(m: &Matrix, cap: usize) -> Merge {
+        let split = Split::of(m);
+        Merge {
+            split,
+            merged: vec![false; split.shares],
+            left: split.shares,
+            pairs_done: 0,
+            tally: PairTally::new(cap),
+            kernel: None,
+        }
+    }
+
+    /// The split being merged.
+    pub fn split(&self) -> Split {
+        self.split
+    }
+
+    /// Adds one share; returns the fraction of all pairs merged so far.
+    pub fn add(&mut self, share: Share) -> Result<f64, MergeError> {
+        if share.order != self.split.order || share.cols != self.split.cols {
+            return Err(MergeError::OtherMatrix);
+        }
+        let s = share.share;
+        match self.merged.get_mut(s) {
+            None => return Err(MergeError::NoSuchShare(s)),
+            Some(true) => return Err(MergeError::Again(s)),
+            Some(seen) => *seen = true,
+        }
+        self.left -= 1;
+        self.pairs_done += self.split.pairs_in(s);
+        match &mut self.kernel {
+            None => self.kernel = Some(share.kernel),
+            Some(k) if *k != share.kernel && !k.split(" + ").any(|x| x == share.kernel) => {
+                k.push_str(" + ");
+                k.push_str(&share.kernel);
+            }
+            Some(_) => {}
+        }
+        let mut part = PairTally::new(self.tally.cap);
+        part.total = share.failing_pairs_total;
+        part.heap = share.failing_pairs.into_iter().map(|p| (p.i, p.j, p.dot)).collect();
+        self.tally.merge(part);
+        Ok(self.progress())
+    }
+
+    /// The fraction of all pairs merged (1.0 when every share is in).
+    pub fn progress(&self) -> f64 {
+        if self.left == 0 {
+            1.0
+        } else {
+            self.pairs_done as f64 / self.split.pairs().max(1) as f64
+        }
+    }
+
+    /// True when every share has been merged.
+    pub fn is_complete(&self) -> bool {
+        self.left == 0
+    }
+
+    /// The report, the same as [`verify_with_cap`] gives, from every share and the matrix's
+    /// [`Facts`] (computed elsewhere, or by [`facts`]). Its `kernel` names the kernels that
+    /// checked the shares.
+    pub fn finish(self, facts: Facts) -> Result<Report, MergeError> {
+        if facts.order != self.split.order || facts.cols != self.split.cols {
+            return Err(MergeError::OtherMatrix);
+        }
+        if let Some(first) = self.merged.iter().position(|&m| !m) {
+            return Err(MergeError::Missing { first, count: self.left });
+        }
+        let mut report = report_from(facts, self.tally);
+        if let Some(k) = self.kernel {
+            report.kernel = k;
+        }
+        Ok(report)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -633,9 +955,119 @@ mod tests {
         Matrix::from_fn(n, n, |i, j| (i & j).count_ones() % 2 == 1)
     }
 
+    /// Every kernel there is here: the names `force_kernel` accepts.
+    const KERNELS: [&str; 5] = ["scalar", "popcnt", "avx512", "simd128", "auto"];
+
+    fn random_matrix(rows: usize, cols: usize, seed: &mut u64) -> Matrix {
+        Matrix::from_fn(rows, cols, |_, _| {
+            *seed ^= *seed << 13;
+            *seed ^= *seed >> 7;
+            *seed ^= *seed << 17;
+            *seed & 1 == 1
+        })
+    }
+
+    #[test]
+    fn every_kernel_counts_like_the_scalar_tile() {
+        // Widths around the simd128 kernel's two-word steps and its widening every 31 steps
+        // (62 words), and the AVX-512 kernel's eight-word steps.
+        #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+        {
+            force_kernel("auto");
+            assert_eq!(kernel_name(), "wasm32-simd128-tiled");
+        }
+        let mut seed = 0x2545f4914f6cdd1du64;
+        for words in [1, 2, 3, 7, 8, 9, 16, 61, 62, 63, 64, 65, 124, 125, 130] {
+            for cols in [words * 64 - 5, words * 64] {
+                let m = random_matrix(8, cols, &mut seed);
+                let mut want = [[0u32; T]; T];
+                tile_scalar(&m, 0, 4, &mut want);
+                for kernel in KERNELS {
+                    if !force_kernel(kernel) {
+                        continue;
+                    }
+                    let mut got = [[0u32; T]; T];
+                    tile(&m, 0, 4, &mut got);
+                    assert_eq!(got, want, "kernel {kernel}, {cols} columns");
+                }
+                // All ones against all ones differ nowhere; rows and their negations everywhere.
+                let mut h = Matrix::ones(8, cols);
+                for i in 4..6 {
+                    h.negate_row(i);
+                }
+                tile_scalar(&h, 0, 4, &mut want);
+                assert_eq!(want[0], [cols as u32, cols as u32, 0, 0]);
+                for kernel in KERNELS {
+                    if force_kernel(kernel) {
+                        let mut got = [[0u32; T]; T];
+                        tile(&h, 0, 4, &mut got);
+                        assert_eq!(got, want, "kernel {kernel}, {cols} columns");
+                    }
+                }
+            }
+        }
+        force_kernel("auto");
+    }
+
+    #[test]
+    fn shares_merged_in_any_order_give_the_report() {
+        let mut seed = 0x9e3779b97f4a7c15u64;
+        let mut flipped = sylvester(9);
+        flipped.flip(300, 17);
+        let cases = [random_matrix(130, 130, &mut seed), random_matrix(301, 640, &mut seed), flipped, sylvester(10)];
+        for m in &cases {
+            let want = verify_with_cap(m, 20);
+            let split = Split::of(m);
+            assert_eq!((0..split.shares()).map(|s| split.pairs_in(s)).sum::<u64>(), split.pairs());
+            // Last share first (the order the browser hands them out), then an interleaving.
+            let orders: [Vec<usize>; 2] = [
+                (0..split.shares()).rev().collect(),
+                (0..split.shares()).step_by(2).chain((1..split.shares()).step_by(2)).collect(),
+            ];
+            for order in orders {
+                let mut merge = Merge::new(m, 20);
+                let mut last = 0.0;
+                for &s in &order {
+                    let f = merge.add(check_share(m, s, 20)).unwrap();
+                    assert!(f >= last);
+                    last = f;
+                }
+                assert!(merge.is_complete() && last == 1.0);
+                let mut got = merge.finish(facts(m)).unwrap();
+                got.kernel = want.kernel.clone();
+                assert_eq!(got, want, "order {}", m.rows());
+            }
+        }
+    }
+
+    #[test]
+    fn a_merge_refuses_repeats_strangers_and_gaps() {
+        let mut h = sylvester(10);
+        h.flip(1000, 3);
+        let split = Split::of(&h);
+        assert!(split.shares() > 2);
+        let mut merge = Merge::new(&h, 10);
+        merge.add(check_share(&h, 0, 10)).unwrap();
+        assert_eq!(merge.add(check_share(&h, 0, 10)), Err(MergeError::Again(0)));
+        let mut stranger = check_share(&h, 1, 10);
+        stranger.order = 512;
+        assert_eq!(merge.add(stranger), Err(MergeError::OtherMatrix));
+        let mut beyond = check_share(&h, 1, 10);
+        beyond.share = split.shares();
+        assert_eq!(merge.add(beyond), Err(MergeError::NoSuchShare(split.shares())));
+        merge.add(check_share(&h, 2, 10)).unwrap();
+        assert!(!merge.is_complete());
+        assert_eq!(merge.finish(facts(&h)), Err(MergeError::Missing { first: 1, count: split.shares() - 2 }));
+        let mut all = Merge::new(&h, 10);
+        for s in 0..split.shares() {
+            all.add(check_share(&h, s, 10)).unwrap();
+        }
+        assert_eq!(all.finish(facts(&sylvester(9))), Err(MergeError::OtherMatrix));
+    }
+
     #[test]
     fn sylvester_passes_every_kernel() {
-        for kernel in ["scalar", "popcnt", "avx512", "auto"] {
+        for kernel in KERNELS {
             if !force_kernel(kernel) {
                 continue;
             }
@@ -682,8 +1114,10 @@ mod tests {
                     }
                 }
             }
-            for kernel in ["scalar", "auto"] {
-                force_kernel(kernel);
+            for kernel in KERNELS {
+                if !force_kernel(kernel) {
+                    continue;
+                }
                 let r = verify_with_cap(&m, 50);
                 assert_eq!(r.failing_pairs_total, want.len() as u64, "n={n} cols={cols}");
                 assert_eq!(r.failing_pairs, want[..want.len().min(50)].to_vec(), "n={n} cols={cols}");

@@ -98,6 +98,7 @@ pub fn router(state: Arc<AppState>) -> Router {
         .route("/pkg/boot.js", get(api::pages::boot_js))
         .route("/pkg/web.js", get(api::pages::web_js))
         .route("/pkg/web_bg.wasm", get(api::pages::web_wasm))
+        .route("/pkg/{file}", get(crate::web_assets::worker_file))
         .fallback(api::pages::fallback)
         .layer(middleware::from_fn_with_state(state.clone(), timeout))
         .layer(middleware::from_fn(security_headers))

@@ -44,6 +44,21 @@ function sylvester(k) {
   return s;
 }
 
+/** An n×n ±1 matrix in pm text, from a small seeded generator (xorshift32). */
+function randomPm(n, seed) {
+  let x = seed >>> 0 || 1;
+  let s = '';
+  for (let i = 0; i < n; i++) {
+    let row = '';
+    for (let j = 0; j < n; j++) {
+      x ^= x << 13; x >>>= 0; x ^= x >>> 17; x ^= x << 5; x >>>= 0;
+      row += x & 1 ? '-' : '+';
+    }
+    s += row + '\n';
+  }
+  return s;
+}
+
 const server = await startServer();
 const browser = await launchBrowser();
 let passed = 0, failed = 0;
@@ -200,6 +215,7 @@ try {
     writeFileSync(big, sylvester(11));
     await page.setInputFiles('#matrix-file', big);
     eq(await verdict(page), 'hadamard', 'data-verdict');
+    assert(Number(await page.getAttribute('#verdict', 'data-workers')) >= 1, 'checked on the Web Workers');
     const worst = await page.evaluate(() => { clearInterval(window.__beat); return Math.max(...window.__gaps); });
     // The read is one step; the check yields every ~25 ms.
     assert(worst < 500, `the page stalled for ${worst.toFixed(0)} ms`);
@@ -212,6 +228,69 @@ try {
     await page.keyboard.press('ArrowDown');
     assert((await page.textContent('.picture .caption')).includes('rows 897–1408'), 'arrow key pans');
   });
+
+  await test('without Web Workers, order 2048 is checked on the page, in slices', async (page) => {
+    await page.addInitScript(() => { delete window.Worker; });
+    await page.goto(server.url + '/verify');
+    await page.evaluate(() => {
+      window.__gaps = [];
+      let last = performance.now();
+      window.__beat = setInterval(() => { const t = performance.now(); window.__gaps.push(t - last); last = t; }, 20);
+    });
+    await page.setInputFiles('#matrix-file', join(work, 'sylvester2048.pm'));
+    eq(await verdict(page), 'hadamard', 'data-verdict');
+    eq(await page.getAttribute('#verdict', 'data-workers'), '0', 'workers');
+    const worst = await page.evaluate(() => { clearInterval(window.__beat); return Math.max(...window.__gaps); });
+    assert(worst < 500, `the page stalled for ${worst.toFixed(0)} ms`);
+  });
+
+  // The browser's report against the CLI's on failing matrices: the page checks in wasm with
+  // core's simd128 kernel (on its Web Workers from order 2048, on the page below that), the CLI
+  // natively with another kernel, so every count and listed pair is an independent cross-check.
+  const failing = [
+    ['Sylvester 2048 with one wrong sign, on the workers', sylvester(11), [700, 1234], true],
+    ['a random ±1 matrix of order 2048, on the workers', randomPm(2048, 7), null, true],
+    ['Sylvester 256 with one wrong sign, on the page', sylvester(8), [200, 99], false],
+  ];
+  for (const [what, text, flip, onWorkers] of failing) {
+    await test(`${what}: the same failing pairs as the CLI`, async (page) => {
+      let body = text;
+      if (flip) {
+        const lines = body.split('\n');
+        const [r, c] = flip;
+        lines[r] = lines[r].slice(0, c) + (lines[r][c] === '+' ? '-' : '+') + lines[r].slice(c + 1);
+        body = lines.join('\n');
+      }
+      const file = join(work, `${what.replace(/[^a-z0-9]+/gi, '-')}.pm`);
+      writeFileSync(file, body);
+      const cli = cliJson(file);
+      assert(!cli.hadamard && cli.failing_pairs_total > 0, 'the CLI finds failing pairs');
+      await page.goto(server.url + '/verify');
+      await page.setInputFiles('#matrix-file', file);
+      eq(await verdict(page), 'not-hadamard', 'data-verdict');
+      const v = await page.$('#verdict');
+      eq(await v.getAttribute('data-kernel'), 'wasm32-simd128-tiled', 'kernel');
+      const workers = Number(await v.getAttribute('data-workers'));
+      assert(onWorkers ? workers >= 1 : workers === 0, `checked by ${workers} workers`);
+      const n = cli.order;
+      const reasons = await page.textContent('.reasons');
+      assert(reasons.includes(`${cli.failing_pairs_total} of ${n * (n - 1) / 2} row pairs are not orthogonal`),
+        `total: CLI ${cli.failing_pairs_total}, page: ${reasons.slice(0, 120)}`);
+      const listed = await page.$$eval('#failing-pairs li', (lis) => lis.map((li) => li.textContent));
+      const want = cli.failing_pairs.slice(0, listed.length)
+        .map((p) => `rows ${p.i + 1} and ${p.j + 1}: inner product ${p.dot}`);
+      assert(listed.length > 0, 'pairs listed');
+      eq(JSON.stringify(listed), JSON.stringify(want), 'listed pairs');
+      eq(await page.textContent('#local-id'), cli.sha256, 'id');
+      if (flip) {
+        const repair = await page.textContent('#repair');
+        assert(repair.includes(`row ${flip[0] + 1}, column ${flip[1] + 1}`), `repair: ${repair}`);
+        eq(cli.repair.row, flip[0], 'the CLI finds the same row');
+      } else {
+        eq(await page.$('#repair'), null, 'no repair for a random matrix');
+      }
+    });
+  }
 
   await test('publish, then "already in the catalogue"', async (page) => {
     await page.goto(server.url + '/verify');

@@ -23,6 +23,8 @@ mod lookup;
 #[cfg(target_arch = "wasm32")]
 mod picture;
 #[cfg(target_arch = "wasm32")]
+mod pool;
+#[cfg(target_arch = "wasm32")]
 mod verify;
 #[cfg(target_arch = "wasm32")]
 mod words;

@@ -1,15 +1,18 @@
 //! Verification in the browser, and publishing to the catalogue.
 //!
 //! The file is read and checked here, by `core` compiled to WebAssembly: nothing leaves the
-//! machine until the person presses "Publish". The exact check runs in slices
+//! machine until the person presses "Publish". A large matrix (order 2048 and up) is checked by
+//! a pool of Web Workers, one per core ([`crate::pool`]), whose shares core merges into the
+//! report; the page only posts messages and moves the progress bar. Smaller matrices, and
+//! browsers where workers cannot start, are checked on the page in slices
 //! ([`hadamard_core::verify::Progressive`]) with a turn of the event loop between them, each
-//! slice sized to take about 25 ms, so an order of 4096 shows a moving progress bar and the
-//! page keeps answering. The verdict follows the CLI's rules: a matrix with erased entries is
+//! slice sized to take about 25 ms, so the page keeps answering either way. The verdict follows the CLI's rules: a matrix with erased entries is
 //! not Hadamard until they are known, and a malformed input gets core's own message with its
 //! line and column.
 
 use crate::api::{self, next_tick, now_ms};
 use crate::picture::MatrixPicture;
+use crate::pool;
 use hadamard_core::formats::{self, Format, ReadOptions};
 use hadamard_core::repair::{self, Completion};
 use hadamard_core::verify::{Failure, Progressive, Report};
@@ -66,6 +69,10 @@ struct Outcome {
     /// Time to read the input, and to check it, in milliseconds.
     read_ms: f64,
     millis: f64,
+    /// How many Web Workers checked it (0: the page itself), and the time they spent on it in
+    /// all, in milliseconds.
+    workers: usize,
+    workers_ms: f64,
 }
 
 #[derive(Clone)]
@@ -147,27 +154,34 @@ async fn check(
     }
     let m = parsed.matrix;
     let start = now_ms();
-    let mut progressive = Progressive::new(&m, PAIR_CAP);
-    let mut budget: u64 = 1 << 14;
-    loop {
-        let t0 = now_ms();
-        let done = progressive.step(budget);
-        if progressive.is_done() {
-            break;
-        }
-        let dt = now_ms() - t0;
-        if dt < SLICE_MS / 2.0 {
-            budget = budget.saturating_mul(2);
-        } else if dt > SLICE_MS * 2.0 {
-            budget = (budget / 2).max(1);
-        }
-        phase.set(Phase::Checking(done));
-        next_tick().await;
-        if !still_wanted() {
-            return;
+    let mut workers = 0;
+    let mut workers_ms = 0.0;
+    let mut on_workers = None;
+    if pool::worth_it(&m) {
+        if let Some(p) = pool::take().await {
+            workers = p.size();
+            let progress = |f| phase.set(Phase::Checking(f));
+            match p.check(&m, PAIR_CAP, progress, &still_wanted).await {
+                None => return,
+                Some(Ok((report, busy, p))) => {
+                    pool::give_back(p);
+                    workers_ms = busy;
+                    on_workers = Some(report);
+                }
+                Some(Err(e)) => {
+                    web_sys::console::warn_1(&format!("checking on the page itself: {e}").into());
+                    workers = 0;
+                }
+            }
         }
     }
-    let report = progressive.finish();
+    let report = match on_workers {
+        Some(r) => r,
+        None => match check_here(&m, phase, &still_wanted).await {
+            Some(r) => r,
+            None => return,
+        },
+    };
     let millis = now_ms() - start;
     // The id and properties were a pass of their own; let the page breathe before drawing.
     next_tick().await;
@@ -214,7 +228,38 @@ async fn check(
         marked,
         read_ms,
         millis,
+        workers,
+        workers_ms,
     }));
+}
+
+/// The check on the page's own thread, in slices of about [`SLICE_MS`]; `None` when abandoned.
+async fn check_here(
+    m: &Matrix,
+    phase: RwSignal<Phase>,
+    still_wanted: impl Fn() -> bool,
+) -> Option<Report> {
+    let mut progressive = Progressive::new(m, PAIR_CAP);
+    let mut budget: u64 = 1 << 14;
+    loop {
+        let t0 = now_ms();
+        let done = progressive.step(budget);
+        if progressive.is_done() {
+            break;
+        }
+        let dt = now_ms() - t0;
+        if dt < SLICE_MS / 2.0 {
+            budget = budget.saturating_mul(2);
+        } else if dt > SLICE_MS * 2.0 {
+            budget = (budget / 2).max(1);
+        }
+        phase.set(Phase::Checking(done));
+        next_tick().await;
+        if !still_wanted() {
+            return None;
+        }
+    }
+    Some(progressive.finish())
 }
 
 async fn read_file(file: web_sys::File) -> Result<Vec<u8>, String> {
@@ -259,6 +304,7 @@ pub fn VerifyPanel(
     let publish = RwSignal::new(Publish::Idle);
     let dragging = RwSignal::new(false);
     let generation = StoredValue::new(0u32);
+    pool::warm_up();
 
     let run = move |src: Source| {
         generation.update_value(|g| *g += 1);
@@ -360,6 +406,18 @@ pub fn VerifyPanel(
         )),
         _ => None,
     };
+    let kernel = move || match phase.get() {
+        Phase::Done(o) => Some(o.report.kernel.clone()),
+        _ => None,
+    };
+    let workers = move || match phase.get() {
+        Phase::Done(o) => Some(o.workers.to_string()),
+        _ => None,
+    };
+    let workers_ms = move || match phase.get() {
+        Phase::Done(o) if o.workers > 0 => Some(format!("{:.1}", o.workers_ms)),
+        _ => None,
+    };
     let verdict_class = move || match verdict_attr() {
         Some(v) => format!("verdict {v}"),
         None => "verdict".to_string(),
@@ -420,7 +478,8 @@ pub fn VerifyPanel(
             </div>
 
             <div id="verdict" class=verdict_class role="status" aria-live="polite" data-verdict=verdict_attr
-                data-read-ms=move || timing(0) data-check-ms=move || timing(1)>
+                data-read-ms=move || timing(0) data-check-ms=move || timing(1)
+                data-kernel=kernel data-workers=workers data-workers-ms=workers_ms>
                 {move || match phase.get() {
                     Phase::Idle => view! { <p class="waiting">"No matrix checked yet."</p> }.into_any(),
                     Phase::Reading => view! { <p class="waiting">"Reading…"</p> }.into_any(),
@@ -602,7 +661,11 @@ fn Verdict(
             <dt>"Read as"</dt><dd>{o.format.name()}</dd>
             <dt>"Id"</dt><dd><code class="id" id="local-id">{r.sha256.clone()}</code></dd>
             <dt>"Properties"</dt><dd>{format!("{props} (excess {})", p.excess)}</dd>
-            <dt>"Check"</dt><dd>{format!("{}, in this browser: read in {:.0} ms, checked in {:.0} ms", r.check, o.read_ms, o.millis)}</dd>
+            <dt>"Check"</dt><dd>{format!("{}, in this browser: read in {:.0} ms, checked in {:.0} ms{}", r.check, o.read_ms, o.millis, match o.workers {
+                0 => String::new(),
+                1 => " by a Web Worker".to_string(),
+                k => format!(" by {k} Web Workers"),
+            })}</dd>
         </dl>
         {small_enough.then(|| view! { <MatrixPicture matrix=o.matrix.clone() marked=o.marked.clone() cell=cell label=label /> })}
     }
