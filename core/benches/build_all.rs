@@ -10,7 +10,10 @@ use hadamard_core::verify::is_hadamard;
 use std::time::{Duration, Instant};
 
 fn main() {
-    let max = std::env::args().filter_map(|a| a.parse::<u64>().ok()).next().unwrap_or(1208);
+    let max = std::env::args()
+        .filter_map(|a| a.parse::<u64>().ok())
+        .next()
+        .unwrap_or(1208);
     let mut planner = Planner::new();
     let (mut built, mut verify_only) = (Duration::ZERO, Duration::ZERO);
     let mut count = 0;

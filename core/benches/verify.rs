@@ -55,7 +55,11 @@ ts.sort()
 print(ts[len(ts) // 2])
 "#
     );
-    let out = Command::new("python3").arg("-c").arg(script).output().ok()?;
+    let out = Command::new("python3")
+        .arg("-c")
+        .arg(script)
+        .output()
+        .ok()?;
     if !out.status.success() {
         return None;
     }
@@ -65,8 +69,13 @@ print(ts[len(ts) // 2])
 fn main() {
     let quick = std::env::args().any(|a| a == "--quick");
     let sizes: &[usize] = if quick { &[1024] } else { &[1024, 2048, 4096] };
-    println!("exact Hadamard check vs numpy float64 H @ H.T == nI (same run, same matrix: Sylvester)");
-    println!("{:>6} {:>24} {:>12} {:>12} {:>10}", "n", "kernel", "ours (ms)", "numpy (ms)", "ratio");
+    println!(
+        "exact Hadamard check vs numpy float64 H @ H.T == nI (same run, same matrix: Sylvester)"
+    );
+    println!(
+        "{:>6} {:>24} {:>12} {:>12} {:>10}",
+        "n", "kernel", "ours (ms)", "numpy (ms)", "ratio"
+    );
     for &n in sizes {
         let h = sylvester(n);
         let reps = if n >= 4096 { 5 } else { 11 };
@@ -79,10 +88,24 @@ fn main() {
             let ours = median_secs(reps, || {
                 std::hint::black_box(is_hadamard(std::hint::black_box(&h)));
             });
-            let label = if kernel == "auto" { format!("auto = {}", kernel_name()) } else { kernel.to_string() };
+            let label = if kernel == "auto" {
+                format!("auto = {}", kernel_name())
+            } else {
+                kernel.to_string()
+            };
             match np {
-                Some(t) => println!("{n:>6} {label:>24} {:>12.2} {:>12.2} {:>9.1}×", ours * 1e3, t * 1e3, t / ours),
-                None => println!("{n:>6} {label:>24} {:>12.2} {:>12} {:>10}", ours * 1e3, "no numpy", "-"),
+                Some(t) => println!(
+                    "{n:>6} {label:>24} {:>12.2} {:>12.2} {:>9.1}×",
+                    ours * 1e3,
+                    t * 1e3,
+                    t / ours
+                ),
+                None => println!(
+                    "{n:>6} {label:>24} {:>12.2} {:>12} {:>10}",
+                    ours * 1e3,
+                    "no numpy",
+                    "-"
+                ),
             }
         }
         force_kernel("auto");

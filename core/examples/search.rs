@@ -75,7 +75,8 @@ fn main() {
         "gs-multiplier" => {
             let g: usize = args[3].parse().expect("G");
             let limit = args.get(4).and_then(|x| x.parse().ok()).filter(|&l| l > 0);
-            let s = goethals_seidel::GsSearch::with_multiplier(p, g).unwrap_or_else(|e| panic!("{e}"));
+            let s =
+                goethals_seidel::GsSearch::with_multiplier(p, g).unwrap_or_else(|e| panic!("{e}"));
             eprintln!("{} orbits", s.degrees_of_freedom());
             run_to_end(&s, limit)
         }

@@ -27,7 +27,9 @@ pub fn sha256_hex(bytes: &[u8]) -> String {
 
 /// True when `s` has the shape of an id: 64 lowercase hex digits.
 pub fn is_id(s: &str) -> bool {
-    s.len() == 64 && s.bytes().all(|b| b.is_ascii_digit() || (b'a'..=b'f').contains(&b))
+    s.len() == 64
+        && s.bytes()
+            .all(|b| b.is_ascii_digit() || (b'a'..=b'f').contains(&b))
 }
 
 fn hex(bytes: &[u8]) -> String {
@@ -48,7 +50,10 @@ mod tests {
     fn id_is_sha256_of_canonical_text() {
         let m = Matrix::from_rows(&[[1i8, 1], [1, -1]]).unwrap();
         // Outside reference: `printf '++\n+-\n' | sha256sum` (GNU coreutils).
-        assert_eq!(matrix_id(&m), "5c43885b5ad323435abc049650347108889203320297cc6e8c3b7fe586af3a61");
+        assert_eq!(
+            matrix_id(&m),
+            "5c43885b5ad323435abc049650347108889203320297cc6e8c3b7fe586af3a61"
+        );
         assert_eq!(sha256_hex(b"++\n+-\n"), matrix_id(&m));
         assert!(is_id(&matrix_id(&m)));
     }

@@ -22,9 +22,9 @@ pub mod id;
 pub mod matrix;
 pub mod repair;
 pub mod route;
-pub mod seed;
 #[cfg(not(target_arch = "wasm32"))]
 pub mod search;
+pub mod seed;
 pub mod verify;
 
 pub use matrix::Matrix;

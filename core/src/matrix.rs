@@ -49,7 +49,12 @@ impl Matrix {
     /// The all-(+1) matrix of the given shape.
     pub fn ones(rows: usize, cols: usize) -> Matrix {
         let words = words_for(cols);
-        Matrix { rows, cols, words, bits: vec![0; rows * words] }
+        Matrix {
+            rows,
+            cols,
+            words,
+            bits: vec![0; rows * words],
+        }
     }
 
     /// The all-(+1) square matrix of order n.
@@ -58,7 +63,11 @@ impl Matrix {
     }
 
     /// Builds a matrix from a predicate that says which entries are −1.
-    pub fn from_fn(rows: usize, cols: usize, mut negative: impl FnMut(usize, usize) -> bool) -> Matrix {
+    pub fn from_fn(
+        rows: usize,
+        cols: usize,
+        mut negative: impl FnMut(usize, usize) -> bool,
+    ) -> Matrix {
         let mut m = Matrix::ones(rows, cols);
         for i in 0..rows {
             let row = m.row_words_mut(i);
@@ -106,7 +115,12 @@ impl Matrix {
                 bits[i * words + words - 1] &= mask;
             }
         }
-        Some(Matrix { rows, cols, words, bits })
+        Some(Matrix {
+            rows,
+            cols,
+            words,
+            bits,
+        })
     }
 
     /// Number of rows.
@@ -232,14 +246,22 @@ impl Matrix {
     /// The inner product of rows i and j over the integers.
     #[inline]
     pub fn row_dot(&self, i: usize, j: usize) -> i64 {
-        let d: u32 = self.row_words(i).iter().zip(self.row_words(j)).map(|(a, b)| (a ^ b).count_ones()).sum();
+        let d: u32 = self
+            .row_words(i)
+            .iter()
+            .zip(self.row_words(j))
+            .map(|(a, b)| (a ^ b).count_ones())
+            .sum();
         self.cols as i64 - 2 * d as i64
     }
 
     /// The number of −1 entries in row i.
     #[inline]
     pub fn row_negatives(&self, i: usize) -> usize {
-        self.row_words(i).iter().map(|w| w.count_ones() as usize).sum()
+        self.row_words(i)
+            .iter()
+            .map(|w| w.count_ones() as usize)
+            .sum()
     }
 
     /// The transpose, by 64×64 bit-block transposes.
@@ -250,7 +272,11 @@ impl Matrix {
             for bj in 0..self.words {
                 let h = (self.rows - bi).min(64);
                 for (k, slot) in block.iter_mut().enumerate() {
-                    *slot = if k < h { self.bits[(bi + k) * self.words + bj] } else { 0 };
+                    *slot = if k < h {
+                        self.bits[(bi + k) * self.words + bj]
+                    } else {
+                        0
+                    };
                 }
                 transpose64(&mut block);
                 let cj = bj * 64;
@@ -275,7 +301,11 @@ impl Matrix {
                 row_b_neg.extend(b.row_words(k).iter().map(|w| !w));
                 // Write each block of q entries: b's row k, negated where a_ij = −1.
                 for j in 0..a.cols {
-                    let src: &[u64] = if a.is_negative(i, j) { &row_b_neg } else { b.row_words(k) };
+                    let src: &[u64] = if a.is_negative(i, j) {
+                        &row_b_neg
+                    } else {
+                        b.row_words(k)
+                    };
                     out.write_bits(r, j * q, src, q);
                 }
             }
@@ -330,7 +360,9 @@ impl Matrix {
 
     /// The ±1 entries as `i8`, row-major.
     pub fn to_i8_rows(&self) -> Vec<Vec<i8>> {
-        (0..self.rows).map(|i| (0..self.cols).map(|j| self.get(i, j)).collect()).collect()
+        (0..self.rows)
+            .map(|i| (0..self.cols).map(|j| self.get(i, j)).collect())
+            .collect()
     }
 
     /// Appends the canonical text of the matrix to `out`: each row as `+`/`-` characters followed
@@ -346,7 +378,11 @@ impl Matrix {
             out.extend_from_slice(&CANONICAL_BYTE[byte as usize]);
         }
         for j in bytes * 8..self.cols {
-            out.push(if (row[j / 64] >> (j % 64)) & 1 == 1 { b'-' } else { b'+' });
+            out.push(if (row[j / 64] >> (j % 64)) & 1 == 1 {
+                b'-'
+            } else {
+                b'+'
+            });
         }
         out.push(b'\n');
     }
@@ -457,7 +493,12 @@ mod tests {
 
     #[test]
     fn kronecker_matches_definition() {
-        for &(a, b) in &[((2, 2), (3, 3)), ((3, 5), (7, 70)), ((2, 2), (64, 64)), ((5, 3), (33, 33))] {
+        for &(a, b) in &[
+            ((2, 2), (3, 3)),
+            ((3, 5), (7, 70)),
+            ((2, 2), (64, 64)),
+            ((5, 3), (33, 33)),
+        ] {
             let x = pseudo(a.0, a.1, 7);
             let y = pseudo(b.0, b.1, 11);
             assert_eq!(Matrix::kronecker(&x, &y), naive_kron(&x, &y));

@@ -41,7 +41,9 @@ pub fn single_wrong_entry(m: &Matrix, report: &Report) -> Option<Repair> {
     if report.hadamard || !m.is_square() || !order_possible(n) || n < 2 {
         return None;
     }
-    if report.failures != [Failure::RowsNotOrthogonal] || report.failing_pairs_total != (n - 1) as u64 {
+    if report.failures != [Failure::RowsNotOrthogonal]
+        || report.failing_pairs_total != (n - 1) as u64
+    {
         return None;
     }
     let first = report.failing_pairs.first()?;
@@ -83,7 +85,12 @@ pub fn single_wrong_entry(m: &Matrix, report: &Report) -> Option<Repair> {
                 let mut fixed = m.clone();
                 fixed.flip(r, c);
                 if let Ok(v) = certify(fixed) {
-                    return Some(Repair { row: r, col: c, corrected_id: v.id().to_string(), corrected: v });
+                    return Some(Repair {
+                        row: r,
+                        col: c,
+                        corrected_id: v.id().to_string(),
+                        corrected: v,
+                    });
                 }
             }
         }
@@ -104,7 +111,11 @@ pub struct CompletionLimits {
 
 impl Default for CompletionLimits {
     fn default() -> Self {
-        CompletionLimits { max_erasures: 4096, max_nodes: 2_000_000, max_count: 1000 }
+        CompletionLimits {
+            max_erasures: 4096,
+            max_nodes: 2_000_000,
+            max_count: 1000,
+        }
     }
 }
 
@@ -136,12 +147,19 @@ pub fn complete(m: &Matrix, erasures: &[(usize, usize)], limits: CompletionLimit
             unknown.set_negative(i, j, true);
         }
     }
-    let mut vars: Vec<(usize, usize)> = erasures.iter().copied().filter(|&(i, j)| i < n && j < n).collect();
+    let mut vars: Vec<(usize, usize)> = erasures
+        .iter()
+        .copied()
+        .filter(|&(i, j)| i < n && j < n)
+        .collect();
     vars.sort_unstable();
     vars.dedup();
     if vars.is_empty() {
         return match certify(m.clone()) {
-            Ok(v) => Completion::Unique { id: v.id().to_string(), matrix: v },
+            Ok(v) => Completion::Unique {
+                id: v.id().to_string(),
+                matrix: v,
+            },
             Err(_) => Completion::None,
         };
     }
@@ -181,11 +199,17 @@ pub fn complete(m: &Matrix, erasures: &[(usize, usize)], limits: CompletionLimit
     match (s.found, finished) {
         (0, true) => Completion::None,
         (1, true) => match s.first.take() {
-            Some(v) => Completion::Unique { id: matrix_id(v.matrix()), matrix: v },
+            Some(v) => Completion::Unique {
+                id: matrix_id(v.matrix()),
+                matrix: v,
+            },
             None => Completion::None,
         },
         (0, false) => Completion::GaveUp { explored: s.nodes },
-        (k, done) => Completion::Several { count: k, complete: done },
+        (k, done) => Completion::Several {
+            count: k,
+            complete: done,
+        },
     }
 }
 
@@ -216,7 +240,13 @@ impl Search {
                     continue;
                 }
                 let (mut open, mut diff) = (0i64, 0i64);
-                for ((u, v), (x, y)) in self.unknown.row_words(r).iter().zip(self.unknown.row_words(j)).zip(self.m.row_words(r).iter().zip(self.m.row_words(j))) {
+                for ((u, v), (x, y)) in self
+                    .unknown
+                    .row_words(r)
+                    .iter()
+                    .zip(self.unknown.row_words(j))
+                    .zip(self.m.row_words(r).iter().zip(self.m.row_words(j)))
+                {
                     let any = u | v;
                     open += any.count_ones() as i64;
                     diff += ((x ^ y) & !any).count_ones() as i64;
@@ -316,7 +346,8 @@ mod tests {
             for c in 0..16 {
                 let mut bad = h.clone();
                 bad.flip(r, c);
-                let rep = single_wrong_entry(&bad, &verify(&bad)).expect("one flip is always explained");
+                let rep =
+                    single_wrong_entry(&bad, &verify(&bad)).expect("one flip is always explained");
                 // In order 16 the flip is found at its own place.
                 assert_eq!((rep.row, rep.col), (r, c));
                 assert_eq!(rep.corrected.matrix(), &h);
@@ -353,7 +384,10 @@ mod tests {
         let h = sylvester(3);
         let erased: Vec<(usize, usize)> = (0..8).map(|c| (6, c)).collect();
         match complete(&h, &erased, CompletionLimits::default()) {
-            Completion::Several { count: 2, complete: true } => {}
+            Completion::Several {
+                count: 2,
+                complete: true,
+            } => {}
             other => panic!("expected ±row, got {other:?}"),
         }
     }
@@ -361,7 +395,15 @@ mod tests {
     #[test]
     fn scattered_erasures_in_order_32() {
         let h = sylvester(5);
-        let erased = [(0, 3), (4, 4), (9, 31), (17, 2), (30, 30), (31, 0), (12, 19)];
+        let erased = [
+            (0, 3),
+            (4, 4),
+            (9, 31),
+            (17, 2),
+            (30, 30),
+            (31, 0),
+            (12, 19),
+        ];
         let mut m = h.clone();
         for &(i, j) in &erased {
             m.set_negative(i, j, false);

@@ -46,12 +46,30 @@ pub struct SeedCatalogue {
 
 /// The embedded files: (name, text).
 pub const FILES: &[(&str, &str)] = &[
-    ("williamson.txt", include_str!("../../seed-catalogue/sequences/williamson.txt")),
-    ("golay.txt", include_str!("../../seed-catalogue/sequences/golay.txt")),
-    ("base.txt", include_str!("../../seed-catalogue/sequences/base.txt")),
-    ("turyn-type.txt", include_str!("../../seed-catalogue/sequences/turyn-type.txt")),
-    ("t-sequences.txt", include_str!("../../seed-catalogue/sequences/t-sequences.txt")),
-    ("goethals-seidel.txt", include_str!("../../seed-catalogue/sequences/goethals-seidel.txt")),
+    (
+        "williamson.txt",
+        include_str!("../../seed-catalogue/sequences/williamson.txt"),
+    ),
+    (
+        "golay.txt",
+        include_str!("../../seed-catalogue/sequences/golay.txt"),
+    ),
+    (
+        "base.txt",
+        include_str!("../../seed-catalogue/sequences/base.txt"),
+    ),
+    (
+        "turyn-type.txt",
+        include_str!("../../seed-catalogue/sequences/turyn-type.txt"),
+    ),
+    (
+        "t-sequences.txt",
+        include_str!("../../seed-catalogue/sequences/t-sequences.txt"),
+    ),
+    (
+        "goethals-seidel.txt",
+        include_str!("../../seed-catalogue/sequences/goethals-seidel.txt"),
+    ),
 ];
 
 /// The embedded seed catalogue, parsed and checked once.
@@ -93,11 +111,17 @@ impl SeedCatalogue {
         let kind = words.next().ok_or("empty entry")?;
         let mut fields = Vec::new();
         for w in words {
-            let (k, v) = w.split_once('=').ok_or_else(|| format!("expected key=value, found `{w}`"))?;
+            let (k, v) = w
+                .split_once('=')
+                .ok_or_else(|| format!("expected key=value, found `{w}`"))?;
             fields.push((k, v));
         }
         let get = |key: &str| -> Result<Vec<i8>, String> {
-            let v = fields.iter().find(|(k, _)| *k == key).map(|(_, v)| *v).ok_or_else(|| format!("missing `{key}=`"))?;
+            let v = fields
+                .iter()
+                .find(|(k, _)| *k == key)
+                .map(|(_, v)| *v)
+                .ok_or_else(|| format!("missing `{key}=`"))?;
             from_text(v).map_err(|i| format!("`{key}`: bad character at position {}", i + 1))
         };
         let source = source.to_string();
@@ -107,16 +131,66 @@ impl SeedCatalogue {
                 if !data.is_valid() {
                     return Err(concat!("fails the defining identity of ", $what).into());
                 }
-                self.$list.push(Entry { data, provenance, source });
+                self.$list.push(Entry {
+                    data,
+                    provenance,
+                    source,
+                });
             }};
         }
         match kind {
-            "williamson" => push!(williamson, Williamson { a: get("a")?, b: get("b")?, c: get("c")?, d: get("d")? }, "Williamson matrices"),
-            "golay" => push!(golay, GolayPair { a: get("a")?, b: get("b")? }, "a Golay pair"),
-            "base" => push!(base, BaseSequences { a: get("a")?, b: get("b")?, c: get("c")?, d: get("d")? }, "base sequences"),
-            "turyn" => push!(turyn_type, TurynType { a: get("a")?, b: get("b")?, c: get("c")?, d: get("d")? }, "Turyn-type sequences"),
-            "tseq" => push!(t_sequences, TSequences { t: [get("t1")?, get("t2")?, get("t3")?, get("t4")?] }, "T-sequences"),
-            "gs" => push!(goethals_seidel, GsQuadruple { a: [get("a")?, get("b")?, get("c")?, get("d")?] }, "a Goethals–Seidel quadruple"),
+            "williamson" => push!(
+                williamson,
+                Williamson {
+                    a: get("a")?,
+                    b: get("b")?,
+                    c: get("c")?,
+                    d: get("d")?
+                },
+                "Williamson matrices"
+            ),
+            "golay" => push!(
+                golay,
+                GolayPair {
+                    a: get("a")?,
+                    b: get("b")?
+                },
+                "a Golay pair"
+            ),
+            "base" => push!(
+                base,
+                BaseSequences {
+                    a: get("a")?,
+                    b: get("b")?,
+                    c: get("c")?,
+                    d: get("d")?
+                },
+                "base sequences"
+            ),
+            "turyn" => push!(
+                turyn_type,
+                TurynType {
+                    a: get("a")?,
+                    b: get("b")?,
+                    c: get("c")?,
+                    d: get("d")?
+                },
+                "Turyn-type sequences"
+            ),
+            "tseq" => push!(
+                t_sequences,
+                TSequences {
+                    t: [get("t1")?, get("t2")?, get("t3")?, get("t4")?]
+                },
+                "T-sequences"
+            ),
+            "gs" => push!(
+                goethals_seidel,
+                GsQuadruple {
+                    a: [get("a")?, get("b")?, get("c")?, get("d")?]
+                },
+                "a Goethals–Seidel quadruple"
+            ),
             other => return Err(format!("unknown kind `{other}`")),
         }
         Ok(())
@@ -130,14 +204,21 @@ mod tests {
     #[test]
     fn embedded_catalogue_is_clean() {
         let cat = embedded();
-        assert!(cat.rejected.is_empty(), "rejected seed entries: {:?}", cat.rejected);
+        assert!(
+            cat.rejected.is_empty(),
+            "rejected seed entries: {:?}",
+            cat.rejected
+        );
         assert!(!cat.williamson.is_empty());
     }
 
     #[test]
     fn bad_lines_are_rejected_with_their_place() {
         let mut cat = SeedCatalogue::default();
-        cat.add_text("t.txt", "# c\nwilliamson a=+++ b=+++ c=+-- d=+-- | x\ngolay a=++ b=+-\ngolay a=+x b=+- | y\n");
+        cat.add_text(
+            "t.txt",
+            "# c\nwilliamson a=+++ b=+++ c=+-- d=+-- | x\ngolay a=++ b=+-\ngolay a=+x b=+- | y\n",
+        );
         assert_eq!(cat.rejected.len(), 3);
         assert_eq!(cat.rejected[0].0, "t.txt:2");
         assert!(cat.rejected[1].1.contains("provenance"));

@@ -170,7 +170,12 @@ fn finish_report(m: &Matrix, tally: PairTally) -> Report {
 }
 
 fn report_from(facts: Facts, tally: PairTally) -> Report {
-    let Facts { order, cols, sha256, properties } = facts;
+    let Facts {
+        order,
+        cols,
+        sha256,
+        properties,
+    } = facts;
     let total = tally.total;
     let pairs = tally.into_pairs();
     let mut failures = Vec::new();
@@ -226,8 +231,16 @@ pub fn properties(m: &Matrix) -> Properties {
     let sum = |x: &Matrix, i: usize| x.cols() as i64 - 2 * x.row_negatives(i) as i64;
     let row_sums: Vec<i64> = (0..n).map(|i| sum(m, i)).collect();
     let excess = row_sums.iter().sum();
-    let regular = n > 0 && row_sums.iter().all(|&r| r == row_sums[0]) && (0..t.rows()).all(|j| sum(&t, j) == row_sums[0]);
-    Properties { normalized, symmetric, skew, regular, excess }
+    let regular = n > 0
+        && row_sums.iter().all(|&r| r == row_sums[0])
+        && (0..t.rows()).all(|j| sum(&t, j) == row_sums[0]);
+    Properties {
+        normalized,
+        symmetric,
+        skew,
+        regular,
+        excess,
+    }
 }
 
 /// The running count of failing pairs.
@@ -244,7 +257,12 @@ struct PairTally {
 
 impl PairTally {
     fn new(cap: usize) -> PairTally {
-        PairTally { cap, heap: std::collections::BinaryHeap::new(), total: 0, stop_at_first: false }
+        PairTally {
+            cap,
+            heap: std::collections::BinaryHeap::new(),
+            total: 0,
+            stop_at_first: false,
+        }
     }
     #[inline]
     fn record(&mut self, i: usize, j: usize, dot: i64) {
@@ -269,7 +287,11 @@ impl PairTally {
         self.stop_at_first && self.total > 0
     }
     fn into_pairs(self) -> Vec<FailingPair> {
-        let mut v: Vec<FailingPair> = self.heap.into_iter().map(|(i, j, dot)| FailingPair { i, j, dot }).collect();
+        let mut v: Vec<FailingPair> = self
+            .heap
+            .into_iter()
+            .map(|(i, j, dot)| FailingPair { i, j, dot })
+            .collect();
         v.sort_unstable_by_key(|p| (p.i, p.j));
         v
     }
@@ -353,7 +375,12 @@ fn panel_pass(m: &Matrix, panel: usize, p: usize, tally: &mut PairTally) {
             } else {
                 for i in i0..(i0 + T).min(n) {
                     for j in j0.max(i + 1)..(j0 + T).min(j_hi) {
-                        let pc = m.row_words(i).iter().zip(m.row_words(j)).map(|(x, y)| (x ^ y).count_ones()).sum();
+                        let pc = m
+                            .row_words(i)
+                            .iter()
+                            .zip(m.row_words(j))
+                            .map(|(x, y)| (x ^ y).count_ones())
+                            .sum();
                         check_pair(m, i, j, pc, tally);
                     }
                 }
@@ -408,8 +435,18 @@ fn tile(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
 #[inline(always)]
 fn tile_scalar(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
     let w = m.words_per_row();
-    let a = [m.row_words(i0), m.row_words(i0 + 1), m.row_words(i0 + 2), m.row_words(i0 + 3)];
-    let b = [m.row_words(j0), m.row_words(j0 + 1), m.row_words(j0 + 2), m.row_words(j0 + 3)];
+    let a = [
+        m.row_words(i0),
+        m.row_words(i0 + 1),
+        m.row_words(i0 + 2),
+        m.row_words(i0 + 3),
+    ];
+    let b = [
+        m.row_words(j0),
+        m.row_words(j0 + 1),
+        m.row_words(j0 + 2),
+        m.row_words(j0 + 3),
+    ];
     let (a0, a1, a2, a3) = (&a[0][..w], &a[1][..w], &a[2][..w], &a[3][..w]);
     let (b0, b1, b2, b3) = (&b[0][..w], &b[1][..w], &b[2][..w], &b[3][..w]);
     let mut s = [[0u32; T]; T];
@@ -472,7 +509,9 @@ mod x86 {
             2 => Level::Popcnt,
             3 => Level::Avx512,
             _ => {
-                let l = if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") {
+                let l = if is_x86_feature_detected!("avx512f")
+                    && is_x86_feature_detected!("avx512vpopcntdq")
+                {
                     Level::Avx512
                 } else if is_x86_feature_detected!("popcnt") {
                     Level::Popcnt
@@ -559,10 +598,20 @@ mod x86 {
     #[inline]
     #[target_feature(enable = "avx512f")]
     unsafe fn hsum8(v: [__m512i; 8]) -> __m512i {
-        let pair = |a: __m512i, b: __m512i| _mm512_add_epi64(_mm512_unpacklo_epi64(a, b), _mm512_unpackhi_epi64(a, b));
-        let (p01, p23, p45, p67) = (pair(v[0], v[1]), pair(v[2], v[3]), pair(v[4], v[5]), pair(v[6], v[7]));
+        let pair = |a: __m512i, b: __m512i| {
+            _mm512_add_epi64(_mm512_unpacklo_epi64(a, b), _mm512_unpackhi_epi64(a, b))
+        };
+        let (p01, p23, p45, p67) = (
+            pair(v[0], v[1]),
+            pair(v[2], v[3]),
+            pair(v[4], v[5]),
+            pair(v[6], v[7]),
+        );
         let quad = |a: __m512i, b: __m512i| {
-            _mm512_add_epi64(_mm512_shuffle_i64x2::<0b10_00_10_00>(a, b), _mm512_shuffle_i64x2::<0b11_01_11_01>(a, b))
+            _mm512_add_epi64(
+                _mm512_shuffle_i64x2::<0b10_00_10_00>(a, b),
+                _mm512_shuffle_i64x2::<0b11_01_11_01>(a, b),
+            )
         };
         let (q0, q1) = (quad(p01, p23), quad(p45, p67));
         quad(q0, q1)
@@ -581,7 +630,10 @@ pub fn force_kernel(name: &str) -> bool {
             "auto" => None,
             "scalar" => Some(Level::Baseline),
             "popcnt" if is_x86_feature_detected!("popcnt") => Some(Level::Popcnt),
-            "avx512" if is_x86_feature_detected!("avx512f") && is_x86_feature_detected!("avx512vpopcntdq") => {
+            "avx512"
+                if is_x86_feature_detected!("avx512f")
+                    && is_x86_feature_detected!("avx512vpopcntdq") =>
+            {
                 Some(Level::Avx512)
             }
             _ => return false,
@@ -598,7 +650,10 @@ pub fn force_kernel(name: &str) -> bool {
         }
         true
     }
-    #[cfg(not(any(target_arch = "x86_64", all(target_arch = "wasm32", target_feature = "simd128"))))]
+    #[cfg(not(any(
+        target_arch = "x86_64",
+        all(target_arch = "wasm32", target_feature = "simd128")
+    )))]
     {
         matches!(name, "auto" | "scalar")
     }
@@ -630,8 +685,10 @@ mod wasm_simd {
     #[inline(always)]
     fn byte_sum(v: v128) -> u32 {
         let s = i32x4_extadd_pairwise_u16x8(i16x8_extadd_pairwise_u8x16(v));
-        (i32x4_extract_lane::<0>(s) + i32x4_extract_lane::<1>(s) + i32x4_extract_lane::<2>(s) + i32x4_extract_lane::<3>(s))
-            as u32
+        (i32x4_extract_lane::<0>(s)
+            + i32x4_extract_lane::<1>(s)
+            + i32x4_extract_lane::<2>(s)
+            + i32x4_extract_lane::<3>(s)) as u32
     }
 
     /// The 4×4 tile of popcounts of rᵢ ⊕ rⱼ, two words at a time; an odd last word is counted
@@ -639,8 +696,18 @@ mod wasm_simd {
     #[inline(always)]
     pub fn tile_simd128(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
         let w = m.words_per_row();
-        let a = [m.row_words(i0), m.row_words(i0 + 1), m.row_words(i0 + 2), m.row_words(i0 + 3)];
-        let b = [m.row_words(j0), m.row_words(j0 + 1), m.row_words(j0 + 2), m.row_words(j0 + 3)];
+        let a = [
+            m.row_words(i0),
+            m.row_words(i0 + 1),
+            m.row_words(i0 + 2),
+            m.row_words(i0 + 3),
+        ];
+        let b = [
+            m.row_words(j0),
+            m.row_words(j0 + 1),
+            m.row_words(j0 + 2),
+            m.row_words(j0 + 3),
+        ];
         let steps = w / 2;
         let load = |row: &[u64], k: usize| -> v128 {
             let pair = &row[2 * k..2 * k + 2];
@@ -697,7 +764,14 @@ impl<'a> Progressive<'a> {
     /// Starts checking `m`.
     pub fn new(m: &'a Matrix, cap: usize) -> Progressive<'a> {
         let panel = panel_rows(m);
-        Progressive { m, panel, next_panel: 0, panels: m.rows().div_ceil(panel), tally: PairTally::new(cap), pairs_done: 0 }
+        Progressive {
+            m,
+            panel,
+            next_panel: 0,
+            panels: m.rows().div_ceil(panel),
+            tally: PairTally::new(cap),
+            pairs_done: 0,
+        }
     }
 
     /// Checks panels until about `budget` row pairs have been done; returns the fraction of
@@ -753,7 +827,12 @@ impl Split {
     /// How the check of `m` is cut.
     pub fn of(m: &Matrix) -> Split {
         let panel = panel_rows(m);
-        Split { order: m.rows(), cols: m.cols(), panel, shares: m.rows().div_ceil(panel) }
+        Split {
+            order: m.rows(),
+            cols: m.cols(),
+            panel,
+            shares: m.rows().div_ceil(panel),
+        }
     }
 
     /// The number of shares (at least one for a non-empty matrix).
@@ -796,7 +875,11 @@ pub struct Share {
 /// When `s` is not a share of the split (`s >= Split::of(m).shares()`).
 pub fn check_share(m: &Matrix, s: usize, cap: usize) -> Share {
     let split = Split::of(m);
-    assert!(s < split.shares, "share {s} of a split into {}", split.shares);
+    assert!(
+        s < split.shares,
+        "share {s} of a split into {}",
+        split.shares
+    );
     let mut tally = PairTally::new(cap);
     panel_pass(m, split.panel, s, &mut tally);
     let failing_pairs_total = tally.total;
@@ -826,7 +909,12 @@ pub struct Facts {
 
 /// The id and properties of `m`.
 pub fn facts(m: &Matrix) -> Facts {
-    Facts { order: m.rows(), cols: m.cols(), sha256: matrix_id(m), properties: properties(m) }
+    Facts {
+        order: m.rows(),
+        cols: m.cols(),
+        sha256: matrix_id(m),
+        properties: properties(m),
+    }
 }
 
 /// Why [`Merge`] refused a share or could not finish.
@@ -848,7 +936,9 @@ impl std::fmt::Display for MergeError {
             MergeError::OtherMatrix => write!(f, "a result for a matrix of another shape"),
             MergeError::NoSuchShare(s) => write!(f, "share {s} is not part of the split"),
             MergeError::Again(s) => write!(f, "share {s} was merged twice"),
-            MergeError::Missing { first, count } => write!(f, "{count} shares are missing, the first is {first}"),
+            MergeError::Missing { first, count } => {
+                write!(f, "{count} shares are missing, the first is {first}")
+            }
         }
     }
 }
@@ -909,7 +999,11 @@ impl Merge {
         }
         let mut part = PairTally::new(self.tally.cap);
         part.total = share.failing_pairs_total;
-        part.heap = share.failing_pairs.into_iter().map(|p| (p.i, p.j, p.dot)).collect();
+        part.heap = share
+            .failing_pairs
+            .into_iter()
+            .map(|p| (p.i, p.j, p.dot))
+            .collect();
         self.tally.merge(part);
         Ok(self.progress())
     }
@@ -936,7 +1030,10 @@ impl Merge {
             return Err(MergeError::OtherMatrix);
         }
         if let Some(first) = self.merged.iter().position(|&m| !m) {
-            return Err(MergeError::Missing { first, count: self.left });
+            return Err(MergeError::Missing {
+                first,
+                count: self.left,
+            });
         }
         let mut report = report_from(facts, self.tally);
         if let Some(k) = self.kernel {
@@ -1014,15 +1111,26 @@ mod tests {
         let mut seed = 0x9e3779b97f4a7c15u64;
         let mut flipped = sylvester(9);
         flipped.flip(300, 17);
-        let cases = [random_matrix(130, 130, &mut seed), random_matrix(301, 640, &mut seed), flipped, sylvester(10)];
+        let cases = [
+            random_matrix(130, 130, &mut seed),
+            random_matrix(301, 640, &mut seed),
+            flipped,
+            sylvester(10),
+        ];
         for m in &cases {
             let want = verify_with_cap(m, 20);
             let split = Split::of(m);
-            assert_eq!((0..split.shares()).map(|s| split.pairs_in(s)).sum::<u64>(), split.pairs());
+            assert_eq!(
+                (0..split.shares()).map(|s| split.pairs_in(s)).sum::<u64>(),
+                split.pairs()
+            );
             // Last share first (the order the browser hands them out), then an interleaving.
             let orders: [Vec<usize>; 2] = [
                 (0..split.shares()).rev().collect(),
-                (0..split.shares()).step_by(2).chain((1..split.shares()).step_by(2)).collect(),
+                (0..split.shares())
+                    .step_by(2)
+                    .chain((1..split.shares()).step_by(2))
+                    .collect(),
             ];
             for order in orders {
                 let mut merge = Merge::new(m, 20);
@@ -1054,15 +1162,27 @@ mod tests {
         assert_eq!(merge.add(stranger), Err(MergeError::OtherMatrix));
         let mut beyond = check_share(&h, 1, 10);
         beyond.share = split.shares();
-        assert_eq!(merge.add(beyond), Err(MergeError::NoSuchShare(split.shares())));
+        assert_eq!(
+            merge.add(beyond),
+            Err(MergeError::NoSuchShare(split.shares()))
+        );
         merge.add(check_share(&h, 2, 10)).unwrap();
         assert!(!merge.is_complete());
-        assert_eq!(merge.finish(facts(&h)), Err(MergeError::Missing { first: 1, count: split.shares() - 2 }));
+        assert_eq!(
+            merge.finish(facts(&h)),
+            Err(MergeError::Missing {
+                first: 1,
+                count: split.shares() - 2
+            })
+        );
         let mut all = Merge::new(&h, 10);
         for s in 0..split.shares() {
             all.add(check_share(&h, s, 10)).unwrap();
         }
-        assert_eq!(all.finish(facts(&sylvester(9))), Err(MergeError::OtherMatrix));
+        assert_eq!(
+            all.finish(facts(&sylvester(9))),
+            Err(MergeError::OtherMatrix)
+        );
     }
 
     #[test]
@@ -1098,7 +1218,16 @@ mod tests {
     fn failing_pairs_match_a_naive_count() {
         // Random ±1 matrices of awkward shapes, including ones spanning several panels.
         let mut seed = 0x9e3779b97f4a7c15u64;
-        for &(n, cols) in &[(1, 1), (3, 3), (5, 7), (17, 17), (130, 130), (301, 64), (520, 8), (1030, 4)] {
+        for &(n, cols) in &[
+            (1, 1),
+            (3, 3),
+            (5, 7),
+            (17, 17),
+            (130, 130),
+            (301, 64),
+            (520, 8),
+            (1030, 4),
+        ] {
             let m = Matrix::from_fn(n, cols, |_, _| {
                 seed ^= seed << 13;
                 seed ^= seed >> 7;
@@ -1119,8 +1248,16 @@ mod tests {
                     continue;
                 }
                 let r = verify_with_cap(&m, 50);
-                assert_eq!(r.failing_pairs_total, want.len() as u64, "n={n} cols={cols}");
-                assert_eq!(r.failing_pairs, want[..want.len().min(50)].to_vec(), "n={n} cols={cols}");
+                assert_eq!(
+                    r.failing_pairs_total,
+                    want.len() as u64,
+                    "n={n} cols={cols}"
+                );
+                assert_eq!(
+                    r.failing_pairs,
+                    want[..want.len().min(50)].to_vec(),
+                    "n={n} cols={cols}"
+                );
                 let mut p = Progressive::new(&m, 50);
                 p.step(1);
                 assert_eq!(p.finish().failing_pairs_total, want.len() as u64);

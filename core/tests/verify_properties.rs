@@ -18,10 +18,14 @@ fn sylvester(k: u32) -> Matrix {
 
 /// Applies row and column permutations and negations.
 fn transform(m: &Matrix, rp: &[usize], cp: &[usize], rneg: &[bool], cneg: &[bool]) -> Matrix {
-    Matrix::from_fn(m.rows(), m.cols(), |i, j| m.is_negative(rp[i], cp[j]) ^ rneg[i] ^ cneg[j])
+    Matrix::from_fn(m.rows(), m.cols(), |i, j| {
+        m.is_negative(rp[i], cp[j]) ^ rneg[i] ^ cneg[j]
+    })
 }
 
-fn perm_and_signs(n: usize) -> impl Strategy<Value = (Vec<usize>, Vec<usize>, Vec<bool>, Vec<bool>)> {
+fn perm_and_signs(
+    n: usize,
+) -> impl Strategy<Value = (Vec<usize>, Vec<usize>, Vec<bool>, Vec<bool>)> {
     (
         Just((0..n).collect::<Vec<_>>()).prop_shuffle(),
         Just((0..n).collect::<Vec<_>>()).prop_shuffle(),
@@ -82,7 +86,12 @@ proptest! {
 fn seed_bytes(seed: u64) -> [u8; 32] {
     let mut b = [0u8; 32];
     for (k, chunk) in b.chunks_mut(8).enumerate() {
-        chunk.copy_from_slice(&(seed.wrapping_mul(0x9e37_79b9_7f4a_7c15).wrapping_add(k as u64)).to_le_bytes());
+        chunk.copy_from_slice(
+            &(seed
+                .wrapping_mul(0x9e37_79b9_7f4a_7c15)
+                .wrapping_add(k as u64))
+            .to_le_bytes(),
+        );
     }
     b
 }

@@ -16,7 +16,10 @@ use std::sync::Arc;
 use std::time::{Duration, Instant};
 
 fn env_or(name: &str, default: u64) -> u64 {
-    std::env::var(name).ok().and_then(|v| v.parse().ok()).unwrap_or(default)
+    std::env::var(name)
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(default)
 }
 
 /// One scenario's request maker: (client, k) → (method, path, body, expected status).
@@ -56,11 +59,24 @@ fn run(addr: SocketAddr, clients: u64, secs: u64, op: Op) -> Outcome {
             })
         })
         .collect();
-    let mut all: Vec<f64> = handles.into_iter().flat_map(|h| h.join().unwrap_or_default()).collect();
+    let mut all: Vec<f64> = handles
+        .into_iter()
+        .flat_map(|h| h.join().unwrap_or_default())
+        .collect();
     let secs = start.elapsed().as_secs_f64();
     all.sort_by(|a, b| a.total_cmp(b));
-    let pct = |p: f64| all.get(((all.len() as f64 - 1.0) * p).round() as usize).copied().unwrap_or(f64::NAN);
-    Outcome { requests: all.len(), errors: errors.load(Ordering::Relaxed) as usize, secs, p50_ms: pct(0.5), p99_ms: pct(0.99) }
+    let pct = |p: f64| {
+        all.get(((all.len() as f64 - 1.0) * p).round() as usize)
+            .copied()
+            .unwrap_or(f64::NAN)
+    };
+    Outcome {
+        requests: all.len(),
+        errors: errors.load(Ordering::Relaxed) as usize,
+        secs,
+        p50_ms: pct(0.5),
+        p99_ms: pct(0.99),
+    }
 }
 
 fn main() {
@@ -69,32 +85,98 @@ fn main() {
     let dir = tempfile::tempdir().expect("a temporary directory");
     let s = Server::start(&dir.path().join("registry.sqlite3"), &[]);
     let addr = s.addr;
-    let id16 = request(addr, "GET", "/api/orders/16/matrix", &[], &[]).json()["id"].as_str().unwrap_or_default().to_owned();
-    let id256 = request(addr, "GET", "/api/orders/256/matrix", &[], &[]).json()["id"].as_str().unwrap_or_default().to_owned();
+    let id16 = request(addr, "GET", "/api/orders/16/matrix", &[], &[]).json()["id"]
+        .as_str()
+        .unwrap_or_default()
+        .to_owned();
+    let id256 = request(addr, "GET", "/api/orders/256/matrix", &[], &[]).json()["id"]
+        .as_str()
+        .unwrap_or_default()
+        .to_owned();
     let dup = sylvester_variant(5, 12345);
     request(addr, "POST", "/api/matrices", &[], dup.as_bytes());
 
-    let get = |path: String, want: u16| -> Op { Arc::new(move |_, _| ("GET".into(), path.clone(), Vec::new(), want)) };
+    let get = |path: String, want: u16| -> Op {
+        Arc::new(move |_, _| ("GET".into(), path.clone(), Vec::new(), want))
+    };
     let scenarios: Vec<(&str, Op)> = vec![
         ("GET /api/health", get("/api/health".into(), 200)),
-        ("GET /api/matrices/{id} (metadata)", get(format!("/api/matrices/{id16}"), 200)),
-        ("GET /api/orders/{n} (n ≤ 2000, from the store)", Arc::new(|c, k| ("GET".into(), format!("/api/orders/{}", 4 * (1 + (c * 31 + k * 17) % 500)), Vec::new(), 200))),
-        ("GET download pm, order 16", get(format!("/api/matrices/{id16}/download?format=pm"), 200)),
-        ("GET download npy, order 256 (cached, verified)", get(format!("/api/matrices/{id256}/download?format=npy"), 200)),
-        ("GET download png, order 256", get(format!("/api/matrices/{id256}/download?format=png"), 200)),
+        (
+            "GET /api/matrices/{id} (metadata)",
+            get(format!("/api/matrices/{id16}"), 200),
+        ),
+        (
+            "GET /api/orders/{n} (n ≤ 2000, from the store)",
+            Arc::new(|c, k| {
+                (
+                    "GET".into(),
+                    format!("/api/orders/{}", 4 * (1 + (c * 31 + k * 17) % 500)),
+                    Vec::new(),
+                    200,
+                )
+            }),
+        ),
+        (
+            "GET download pm, order 16",
+            get(format!("/api/matrices/{id16}/download?format=pm"), 200),
+        ),
+        (
+            "GET download npy, order 256 (cached, verified)",
+            get(format!("/api/matrices/{id256}/download?format=npy"), 200),
+        ),
+        (
+            "GET download png, order 256",
+            get(format!("/api/matrices/{id256}/download?format=png"), 200),
+        ),
         ("GET rows/{i}, order 256", {
             let id = id256.clone();
-            Arc::new(move |_, k| ("GET".into(), format!("/api/matrices/{id}/rows/{}", k % 256), Vec::new(), 200))
+            Arc::new(move |_, k| {
+                (
+                    "GET".into(),
+                    format!("/api/matrices/{id}/rows/{}", k % 256),
+                    Vec::new(),
+                    200,
+                )
+            })
         }),
-        ("POST a stored matrix again (200), order 32", Arc::new(move |_, _| ("POST".into(), "/api/matrices".into(), dup.clone().into_bytes(), 200))),
-        ("POST new matrices (201, fsync), order 32", Arc::new(|c, k| ("POST".into(), "/api/matrices".into(), sylvester_variant(5, (c << 24) | (k + 1)).into_bytes(), 201))),
+        (
+            "POST a stored matrix again (200), order 32",
+            Arc::new(move |_, _| {
+                (
+                    "POST".into(),
+                    "/api/matrices".into(),
+                    dup.clone().into_bytes(),
+                    200,
+                )
+            }),
+        ),
+        (
+            "POST new matrices (201, fsync), order 32",
+            Arc::new(|c, k| {
+                (
+                    "POST".into(),
+                    "/api/matrices".into(),
+                    sylvester_variant(5, (c << 24) | (k + 1)).into_bytes(),
+                    201,
+                )
+            }),
+        ),
     ];
-    println!("load: {clients} clients, {secs} s per scenario, fresh connection per request, 127.0.0.1\n");
+    println!(
+        "load: {clients} clients, {secs} s per scenario, fresh connection per request, 127.0.0.1\n"
+    );
     println!("| scenario | requests | errors | req/s | p50 ms | p99 ms |");
     println!("|---|---:|---:|---:|---:|---:|");
     for (name, op) in scenarios {
         let o = run(addr, clients, secs, op);
-        println!("| {name} | {} | {} | {:.0} | {:.2} | {:.2} |", o.requests, o.errors, o.requests as f64 / o.secs, o.p50_ms, o.p99_ms);
+        println!(
+            "| {name} | {} | {} | {:.0} | {:.2} | {:.2} |",
+            o.requests,
+            o.errors,
+            o.requests as f64 / o.secs,
+            o.p50_ms,
+            o.p99_ms
+        );
     }
     // The 304 path, separately: it needs a header.
     let etag = format!("\"{id256}.npy\"");
@@ -103,7 +185,13 @@ fn main() {
     let mut errors = 0;
     while start.elapsed() < Duration::from_secs(secs.min(3)) {
         let t = Instant::now();
-        let r = try_request(addr, "GET", &format!("/api/matrices/{id256}/download?format=npy"), &[("If-None-Match", &etag)], &[]);
+        let r = try_request(
+            addr,
+            "GET",
+            &format!("/api/matrices/{id256}/download?format=npy"),
+            &[("If-None-Match", &etag)],
+            &[],
+        );
         lat.push(t.elapsed().as_secs_f64() * 1e3);
         if !matches!(r, Ok(r) if r.status == 304) {
             errors += 1;

@@ -48,7 +48,12 @@ pub struct AppState {
 impl AppState {
     /// The lock that serialises builds of order n.
     pub fn build_lock(&self, n: usize) -> Arc<tokio::sync::Mutex<()>> {
-        self.builds.lock().unwrap_or_else(|p| p.into_inner()).entry(n).or_default().clone()
+        self.builds
+            .lock()
+            .unwrap_or_else(|p| p.into_inner())
+            .entry(n)
+            .or_default()
+            .clone()
     }
 
     /// Drops the lock of order n once nobody else holds it.
@@ -65,7 +70,9 @@ pub fn open_state(config: Config) -> Result<AppState, StoreError> {
     let store = Store::open(&config.db, Mode::ReadWrite, config.readers)?;
     match seed::ensure_seeded(&store)? {
         seed::Seeded::AlreadyCurrent => tracing::info!("seed catalogue already current"),
-        seed::Seeded::Written { orders, sequences } => tracing::info!(orders, sequences, "wrote the seed catalogue"),
+        seed::Seeded::Written { orders, sequences } => {
+            tracing::info!(orders, sequences, "wrote the seed catalogue")
+        }
     }
     Ok(AppState {
         catalogue: Catalogue::new(store, config.cache_bytes),
@@ -113,9 +120,18 @@ pub const CSP: &str = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval';
 async fn security_headers(req: Request, next: Next) -> Response {
     let mut resp = next.run(req).await;
     let h = resp.headers_mut();
-    h.insert(header::CONTENT_SECURITY_POLICY, HeaderValue::from_static(CSP));
-    h.insert(header::X_CONTENT_TYPE_OPTIONS, HeaderValue::from_static("nosniff"));
-    h.insert(header::REFERRER_POLICY, HeaderValue::from_static("no-referrer"));
+    h.insert(
+        header::CONTENT_SECURITY_POLICY,
+        HeaderValue::from_static(CSP),
+    );
+    h.insert(
+        header::X_CONTENT_TYPE_OPTIONS,
+        HeaderValue::from_static("nosniff"),
+    );
+    h.insert(
+        header::REFERRER_POLICY,
+        HeaderValue::from_static("no-referrer"),
+    );
     h.insert(header::X_FRAME_OPTIONS, HeaderValue::from_static("DENY"));
     resp
 }
@@ -126,8 +142,14 @@ async fn timeout(State(state): State<Arc<AppState>>, req: Request, next: Next) -
         Ok(r) => r,
         Err(_) => {
             tracing::warn!(seconds = limit.as_secs_f64(), "request timed out");
-            api::helpers::ApiError::new(StatusCode::SERVICE_UNAVAILABLE, format!("the request took longer than this server's limit of {} s", limit.as_secs_f64()))
-                .into_response()
+            api::helpers::ApiError::new(
+                StatusCode::SERVICE_UNAVAILABLE,
+                format!(
+                    "the request took longer than this server's limit of {} s",
+                    limit.as_secs_f64()
+                ),
+            )
+            .into_response()
         }
     }
 }
@@ -141,15 +163,25 @@ pub async fn run(config: Config) -> Result<(), String> {
         .map_err(|e| format!("startup failed: {e}"))?
         .map_err(|e| format!("cannot open the catalogue at {}: {e}", db.display()))?;
     let state = Arc::new(state);
-    let listener = tokio::net::TcpListener::bind(addr).await.map_err(|e| format!("cannot listen on {addr}: {e}"))?;
+    let listener = tokio::net::TcpListener::bind(addr)
+        .await
+        .map_err(|e| format!("cannot listen on {addr}: {e}"))?;
     let local = listener.local_addr().map_err(|e| e.to_string())?;
     // The one line on stdout: scripts (and the tests) read the address from it.
-    println!("hadamard serve: listening on http://{local}/ (database {})", state.catalogue.store.path().display());
+    println!(
+        "hadamard serve: listening on http://{local}/ (database {})",
+        state.catalogue.store.path().display()
+    );
     use std::io::Write;
     let _ = std::io::stdout().flush();
     tracing::info!(%local, "listening");
-    axum::serve(listener, router(state.clone())).with_graceful_shutdown(shutdown_signal()).await.map_err(|e| format!("server error: {e}"))?;
-    let checkpointed = tokio::task::spawn_blocking(move || state.catalogue.store.write(crate::store::checkpoint)).await;
+    axum::serve(listener, router(state.clone()))
+        .with_graceful_shutdown(shutdown_signal())
+        .await
+        .map_err(|e| format!("server error: {e}"))?;
+    let checkpointed =
+        tokio::task::spawn_blocking(move || state.catalogue.store.write(crate::store::checkpoint))
+            .await;
     if let Ok(Err(e)) = checkpointed {
         tracing::warn!(error = %e, "final checkpoint failed; the WAL file stays beside the database");
     }

@@ -4,7 +4,9 @@ use std::time::{SystemTime, UNIX_EPOCH};
 
 /// Now, as RFC 3339 UTC with milliseconds.
 pub fn now_rfc3339() -> String {
-    let d = SystemTime::now().duration_since(UNIX_EPOCH).unwrap_or_default();
+    let d = SystemTime::now()
+        .duration_since(UNIX_EPOCH)
+        .unwrap_or_default();
     format_unix_millis(d.as_millis() as i64)
 }
 
@@ -15,7 +17,12 @@ pub fn format_unix_millis(ms: i64) -> String {
     let days = secs.div_euclid(86_400);
     let rem = secs.rem_euclid(86_400);
     let (y, m, d) = civil_from_days(days);
-    format!("{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}.{millis:03}Z", rem / 3600, rem / 60 % 60, rem % 60)
+    format!(
+        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}.{millis:03}Z",
+        rem / 3600,
+        rem / 60 % 60,
+        rem % 60
+    )
 }
 
 /// The proleptic Gregorian date of a day count from 1970-01-01 (Howard Hinnant's
@@ -41,7 +48,13 @@ mod tests {
     fn known_instants() {
         // `date -u -d @0`, `date -u -d @951782400` (2000-02-29) and `date -u -d @1798761599`.
         assert_eq!(format_unix_millis(0), "1970-01-01T00:00:00.000Z");
-        assert_eq!(format_unix_millis(951_782_400_123), "2000-02-29T00:00:00.123Z");
-        assert_eq!(format_unix_millis(1_798_761_599_000), "2026-12-31T23:59:59.000Z");
+        assert_eq!(
+            format_unix_millis(951_782_400_123),
+            "2000-02-29T00:00:00.123Z"
+        );
+        assert_eq!(
+            format_unix_millis(1_798_761_599_000),
+            "2026-12-31T23:59:59.000Z"
+        );
     }
 }

@@ -25,5 +25,12 @@ pub async fn worker_file(Path(file): Path<String>) -> Response {
         "check_bg.wasm" => (CHECK_WASM, "application/wasm"),
         _ => return ApiError::not_found("no such endpoint; see /api for the list").into_response(),
     };
-    ([(header::CONTENT_TYPE, mime), (header::CACHE_CONTROL, "no-cache")], body).into_response()
+    (
+        [
+            (header::CONTENT_TYPE, mime),
+            (header::CACHE_CONTROL, "no-cache"),
+        ],
+        body,
+    )
+        .into_response()
 }

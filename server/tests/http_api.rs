@@ -28,16 +28,30 @@ fn orders_coverage_and_advice() {
     assert_eq!(big["status"], "constructible");
     assert_eq!(s.get("/api/orders/6").json()["status"], "impossible");
 
-    for bad in ["/api/orders/0", "/api/orders/abc", "/api/orders/-4", "/api/orders/99999999999999999999"] {
+    for bad in [
+        "/api/orders/0",
+        "/api/orders/abc",
+        "/api/orders/-4",
+        "/api/orders/99999999999999999999",
+    ] {
         let r = s.get(bad);
         assert_eq!(r.status, 400, "{bad}");
         assert!(r.json()["error"].is_string(), "{bad}");
     }
 
     let c = s.get("/api/coverage?max=20").json();
-    let orders: Vec<u64> = c.as_array().expect("a list").iter().map(|e| e["order"].as_u64().expect("order")).collect();
+    let orders: Vec<u64> = c
+        .as_array()
+        .expect("a list")
+        .iter()
+        .map(|e| e["order"].as_u64().expect("order"))
+        .collect();
     assert_eq!(orders, vec![1, 2, 4, 8, 12, 16, 20]);
-    assert!(c.as_array().expect("a list").iter().all(|e| e["status"].is_string()));
+    assert!(c
+        .as_array()
+        .expect("a list")
+        .iter()
+        .all(|e| e["status"].is_string()));
     let c2 = s.get("/api/coverage?max=2010").json();
     assert_eq!(c2.as_array().map(Vec::len), Some(2 + 2008 / 4));
     assert_eq!(s.get("/api/coverage").status, 400);
@@ -51,10 +65,16 @@ fn orders_coverage_and_advice() {
 
     let k = s.get("/api/smallest-known?at-least=13").json();
     assert_eq!(k["order"], 16);
-    let k = s.get("/api/smallest-known?at-least=13&constructible=true").json();
+    let k = s
+        .get("/api/smallest-known?at-least=13&constructible=true")
+        .json();
     assert_eq!(k["order"], 16);
     assert_eq!(s.get("/api/smallest-known").status, 400);
-    assert_eq!(s.get("/api/smallest-known?at-least=5&constructible=maybe").status, 400);
+    assert_eq!(
+        s.get("/api/smallest-known?at-least=5&constructible=maybe")
+            .status,
+        400
+    );
 
     let h = s.get("/api/health").json();
     assert_eq!(h["status"], "ok");
@@ -64,7 +84,9 @@ fn orders_coverage_and_advice() {
 
     let r = s.get("/api/no-such-thing");
     assert_eq!(r.status, 404);
-    assert!(r.json()["error"].as_str().is_some_and(|e| e.contains("no such endpoint")));
+    assert!(r.json()["error"]
+        .as_str()
+        .is_some_and(|e| e.contains("no such endpoint")));
     assert_eq!(s.stop(), Some(0), "SIGTERM stops the server cleanly");
 }
 
@@ -92,7 +114,16 @@ fn upload_lookup_download_and_restart() {
 
     // The same matrix again, in another format (CSV with CRLF and a BOM): 200, same id.
     let csv: String = "\u{feff}".to_owned()
-        + &text.lines().map(|l| l.chars().map(|c| if c == '+' { "1" } else { "-1" }).collect::<Vec<_>>().join(",")).collect::<Vec<_>>().join("\r\n")
+        + &text
+            .lines()
+            .map(|l| {
+                l.chars()
+                    .map(|c| if c == '+' { "1" } else { "-1" })
+                    .collect::<Vec<_>>()
+                    .join(",")
+            })
+            .collect::<Vec<_>>()
+            .join("\r\n")
         + "\r\n";
     let r = s.post("/api/matrices", csv.as_bytes());
     assert_eq!(r.status, 200, "{}", r.text());
@@ -114,7 +145,9 @@ fn upload_lookup_download_and_restart() {
     assert_eq!(m["order"], 8);
     assert_eq!(m["properties"]["skew"], false);
     assert!(m["properties"]["normalized"].is_boolean());
-    assert!(m["provenance"]["uploaded_at"].as_str().is_some_and(|t| t.ends_with('Z')));
+    assert!(m["provenance"]["uploaded_at"]
+        .as_str()
+        .is_some_and(|t| t.ends_with('Z')));
     assert!(m["verification"]["verified_at"].is_string());
     assert_eq!(m["invariant"]["kind"], "profile4");
 
@@ -124,30 +157,62 @@ fn upload_lookup_download_and_restart() {
     assert_eq!(pm.text(), text);
     let etag = pm.header("etag").expect("an ETag").to_owned();
     assert_eq!(etag, format!("\"{id}.pm\""));
-    assert_eq!(pm.header("cache-control"), Some("public, max-age=31536000, immutable"));
-    let r = s.get_with(&format!("/api/matrices/{id}/download?format=pm"), &[("If-None-Match", &etag)]);
+    assert_eq!(
+        pm.header("cache-control"),
+        Some("public, max-age=31536000, immutable")
+    );
+    let r = s.get_with(
+        &format!("/api/matrices/{id}/download?format=pm"),
+        &[("If-None-Match", &etag)],
+    );
     assert_eq!(r.status, 304);
     assert!(r.body.is_empty());
     assert_eq!(r.header("etag"), Some(etag.as_str()));
-    let r = s.get_with(&format!("/api/matrices/{id}/download?format=csv"), &[("If-None-Match", &etag)]);
-    assert_eq!(r.status, 200, "a pm tag does not match the csv representation");
+    let r = s.get_with(
+        &format!("/api/matrices/{id}/download?format=csv"),
+        &[("If-None-Match", &etag)],
+    );
+    assert_eq!(
+        r.status, 200,
+        "a pm tag does not match the csv representation"
+    );
     assert!(r.text().starts_with("1,"));
-    for (f, ctype) in [("json", "application/json"), ("npy", "application/octet-stream"), ("png", "image/png"), ("npy-f64", "application/octet-stream")] {
+    for (f, ctype) in [
+        ("json", "application/json"),
+        ("npy", "application/octet-stream"),
+        ("png", "image/png"),
+        ("npy-f64", "application/octet-stream"),
+    ] {
         let r = s.get(&format!("/api/matrices/{id}/download?format={f}"));
         assert_eq!(r.status, 200, "{f}");
         assert_eq!(r.header("content-type"), Some(ctype), "{f}");
-        assert!(r.header("content-disposition").is_some_and(|d| d.contains("hadamard-8-")), "{f}");
+        assert!(
+            r.header("content-disposition")
+                .is_some_and(|d| d.contains("hadamard-8-")),
+            "{f}"
+        );
     }
     let bits = s.get(&format!("/api/matrices/{id}/download?format=bits&minus=0"));
     assert_eq!(bits.header("x-bits-minus"), Some("0"));
-    assert_eq!(bits.header("etag"), Some(format!("\"{id}.bits-minus0\"").as_str()));
+    assert_eq!(
+        bits.header("etag"),
+        Some(format!("\"{id}.bits-minus0\"").as_str())
+    );
     // A downloaded .npy uploads back to the same id.
     let npy = s.get(&format!("/api/matrices/{id}/download?format=npy"));
     let r = s.post("/api/matrices", &npy.body);
     assert_eq!(r.status, 200);
     assert_eq!(r.json()["id"], id.as_str());
-    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=xls")).status, 400);
-    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=bits&minus=2")).status, 400);
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id}/download?format=xls"))
+            .status,
+        400
+    );
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id}/download?format=bits&minus=2"))
+            .status,
+        400
+    );
 
     // One row.
     let row = s.get(&format!("/api/matrices/{id}/rows/2"));
@@ -162,22 +227,49 @@ fn upload_lookup_download_and_restart() {
     let r = s.get(&format!("/api/matrices/{unknown}"));
     assert_eq!(r.status, 404);
     assert!(r.json()["error"].is_string());
-    assert_eq!(s.get(&format!("/api/matrices/{unknown}/download?format=pm")).status, 404);
-    assert_eq!(s.get_with(&format!("/api/matrices/{unknown}/download?format=pm"), &[("If-None-Match", &format!("\"{unknown}.pm\""))]).status, 404);
+    assert_eq!(
+        s.get(&format!("/api/matrices/{unknown}/download?format=pm"))
+            .status,
+        404
+    );
+    assert_eq!(
+        s.get_with(
+            &format!("/api/matrices/{unknown}/download?format=pm"),
+            &[("If-None-Match", &format!("\"{unknown}.pm\""))]
+        )
+        .status,
+        404
+    );
     assert_eq!(s.get("/api/matrices/not-an-id").status, 400);
-    assert_eq!(s.get(&format!("/api/matrices/{}", id.to_uppercase())).status, 400);
+    assert_eq!(
+        s.get(&format!("/api/matrices/{}", id.to_uppercase()))
+            .status,
+        400
+    );
 
     // The pages.
     let p = s.get(&format!("/m/{id}"));
     assert_eq!(p.status, 200);
     assert!(p.text().starts_with("<!doctype html>"));
-    assert!(p.header("content-security-policy").is_some_and(|c| c.contains("'wasm-unsafe-eval'") && c.contains("frame-ancestors 'none'")));
+    assert!(p
+        .header("content-security-policy")
+        .is_some_and(|c| c.contains("'wasm-unsafe-eval'") && c.contains("frame-ancestors 'none'")));
     assert_eq!(p.header("x-content-type-options"), Some("nosniff"));
     assert_eq!(s.get(&format!("/m/{unknown}")).status, 404);
     assert_eq!(s.get("/").status, 200);
-    assert_eq!(s.get("/order/92").status, 200, "the app's own routes get the shell");
-    assert_eq!(s.get("/pkg/web_bg.wasm").header("content-type"), Some("application/wasm"));
-    assert!(s.get("/pkg/web.js").header("content-type").is_some_and(|c| c.starts_with("application/javascript")));
+    assert_eq!(
+        s.get("/order/92").status,
+        200,
+        "the app's own routes get the shell"
+    );
+    assert_eq!(
+        s.get("/pkg/web_bg.wasm").header("content-type"),
+        Some("application/wasm")
+    );
+    assert!(s
+        .get("/pkg/web.js")
+        .header("content-type")
+        .is_some_and(|c| c.starts_with("application/javascript")));
     assert!(s.get("/pkg/boot.js").text().contains("/pkg/web_bg.wasm"));
 
     // Restart: everything is still there, byte for byte.
@@ -185,14 +277,27 @@ fn upload_lookup_download_and_restart() {
     let s = Server::start(&db, &[]);
     let m2 = s.get(&format!("/api/matrices/{id}")).json();
     assert_eq!(m2, m);
-    assert_eq!(s.get(&format!("/api/matrices/{id}/download?format=pm")).text(), text);
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id}/download?format=pm"))
+            .text(),
+        text
+    );
     assert_eq!(s.post("/api/matrices", text.as_bytes()).status, 200);
     assert_eq!(s.get("/api/orders/8/matrices").json()["total"], 2);
     drop(s);
 
     // `hadamard audit` re-verifies every stored matrix.
-    let out = hadamard().args(["audit", "--json", "--db"]).arg(&db).output().expect("run audit");
-    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stdout));
+    let out = hadamard()
+        .args(["audit", "--json", "--db"])
+        .arg(&db)
+        .output()
+        .expect("run audit");
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stdout)
+    );
     let a: Value = serde_json::from_slice(&out.stdout).expect("audit --json");
     assert_eq!(a["checked"], 2);
     assert_eq!(a["failed"], 0);
@@ -202,23 +307,40 @@ fn upload_lookup_download_and_restart() {
     // served: the download fails re-verification.
     {
         let c = rusqlite::Connection::open(&db).expect("open the database");
-        let mut bits: Vec<u8> = c.query_row("SELECT bits FROM matrices WHERE id = ?1", [&id], |r| r.get(0)).expect("the blob");
+        let mut bits: Vec<u8> = c
+            .query_row("SELECT bits FROM matrices WHERE id = ?1", [&id], |r| {
+                r.get(0)
+            })
+            .expect("the blob");
         bits[8] ^= 1;
-        c.execute("UPDATE matrices SET bits = ?1 WHERE id = ?2", rusqlite::params![bits, id]).expect("damage it");
+        c.execute(
+            "UPDATE matrices SET bits = ?1 WHERE id = ?2",
+            rusqlite::params![bits, id],
+        )
+        .expect("damage it");
     }
-    let out = hadamard().args(["audit", "--db"]).arg(&db).output().expect("run audit");
+    let out = hadamard()
+        .args(["audit", "--db"])
+        .arg(&db)
+        .output()
+        .expect("run audit");
     assert_eq!(out.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&out.stdout).contains(&format!("FAILED {id}")));
     let s = Server::start(&db, &[]);
     let r = s.get(&format!("/api/matrices/{id}/download?format=pm"));
     assert_eq!(r.status, 500);
-    assert!(r.json()["error"].as_str().is_some_and(|e| e.contains("re-verification")));
+    assert!(r.json()["error"]
+        .as_str()
+        .is_some_and(|e| e.contains("re-verification")));
 }
 
 #[test]
 fn refusals_400_413_422() {
     let dir = tempdir();
-    let s = Server::start(&dir.path().join("r.sqlite3"), &["--max-body", "100000", "--max-order", "64"]);
+    let s = Server::start(
+        &dir.path().join("r.sqlite3"),
+        &["--max-body", "100000", "--max-order", "64"],
+    );
 
     // Malformed: 400 with the place.
     let r = s.post("/api/matrices", b"++\n+x\n");
@@ -226,11 +348,21 @@ fn refusals_400_413_422() {
     let b = r.json();
     assert_eq!(b["location"]["line"], 2);
     assert_eq!(b["location"]["column"], 2);
-    assert!(b["error"].as_str().is_some_and(|e| e.contains("line 2, column 2")));
+    assert!(b["error"]
+        .as_str()
+        .is_some_and(|e| e.contains("line 2, column 2")));
     let r = s.post("/api/matrices", b"");
     assert_eq!(r.status, 400);
-    assert_eq!(s.post("/api/matrices", &[0u8, 159, 146, 150, 255, 0, 1]).status, 400, "binary garbage");
-    assert_eq!(s.post("/api/matrices?format=klingon", b"++\n+-\n").status, 400);
+    assert_eq!(
+        s.post("/api/matrices", &[0u8, 159, 146, 150, 255, 0, 1])
+            .status,
+        400,
+        "binary garbage"
+    );
+    assert_eq!(
+        s.post("/api/matrices?format=klingon", b"++\n+-\n").status,
+        400
+    );
     // A .npy header that declares far more data than it has.
     let mut npy = b"\x93NUMPY\x01\x00".to_vec();
     let header = "{'descr': '|i1', 'fortran_order': False, 'shape': (40000, 40000), }";
@@ -246,7 +378,10 @@ fn refusals_400_413_422() {
     assert_eq!(r.status, 400, "{}", r.text());
 
     // Well-formed, not Hadamard: 422 with the failing pairs.
-    let r = s.post("/api/matrices", b"++++\n++--\n+-+-\n+--+\n++++\n".as_slice());
+    let r = s.post(
+        "/api/matrices",
+        b"++++\n++--\n+-+-\n+--+\n++++\n".as_slice(),
+    );
     assert_eq!(r.status, 422);
     let r = s.post("/api/matrices", b"++++\n++--\n+-+-\n++++\n");
     assert_eq!(r.status, 422);
@@ -257,11 +392,25 @@ fn refusals_400_413_422() {
     assert_eq!(b["failing_pairs"][0]["j"], 3);
     assert_eq!(b["failing_pairs"][0]["dot"], 4);
     assert!(b["error"].is_string());
-    assert_eq!(s.post("/api/matrices", b"+++\n+-+\n++-\n").status, 422, "order 3 cannot be Hadamard");
-    assert_eq!(s.post("/api/matrices", b"++\n+?\n").status, 422, "erased entries are not stored");
+    assert_eq!(
+        s.post("/api/matrices", b"+++\n+-+\n++-\n").status,
+        422,
+        "order 3 cannot be Hadamard"
+    );
+    assert_eq!(
+        s.post("/api/matrices", b"++\n+?\n").status,
+        422,
+        "erased entries are not stored"
+    );
 
     // Too large: a declared length over the limit is refused before the body is read.
-    let r = common::request(s.addr, "POST", "/api/matrices", &[("Content-Length", "1000000000")], b"");
+    let r = common::request(
+        s.addr,
+        "POST",
+        "/api/matrices",
+        &[("Content-Length", "1000000000")],
+        b"",
+    );
     assert_eq!(r.status, 413);
     assert_eq!(r.json()["limit"], 100000);
     // And a chunked body that grows past it.
@@ -272,7 +421,13 @@ fn refusals_400_413_422() {
         chunked.extend_from_slice(b"\r\n");
     }
     chunked.extend_from_slice(b"0\r\n\r\n");
-    let r = common::request(s.addr, "POST", "/api/matrices", &[("Transfer-Encoding", "chunked")], &chunked);
+    let r = common::request(
+        s.addr,
+        "POST",
+        "/api/matrices",
+        &[("Transfer-Encoding", "chunked")],
+        &chunked,
+    );
     assert_eq!(r.status, 413);
 
     // Orders above --max-order are neither uploaded nor built.
@@ -283,7 +438,10 @@ fn refusals_400_413_422() {
 
     // Nothing refused was stored.
     assert_eq!(s.get("/api/health").json()["matrices"], 0);
-    assert_eq!(common::request(s.addr, "DELETE", "/api/matrices", &[], b"").status, 405);
+    assert_eq!(
+        common::request(s.addr, "DELETE", "/api/matrices", &[], b"").status,
+        405
+    );
 }
 
 #[test]
@@ -298,9 +456,15 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
     let id = e["id"].as_str().expect("an id").to_owned();
     assert_eq!(e["url"], format!("/m/{id}"));
     assert!(e["recipe"]["tree"]["method"].is_string());
-    assert_eq!(e["recipe"]["id"], id.as_str(), "the recipe pins the id it replays to");
+    assert_eq!(
+        e["recipe"]["id"],
+        id.as_str(),
+        "the recipe pins the id it replays to"
+    );
     // The id is the SHA-256 of the pm download.
-    let pm = s.get(&format!("/api/matrices/{id}/download?format=pm")).text();
+    let pm = s
+        .get(&format!("/api/matrices/{id}/download?format=pm"))
+        .text();
     assert_eq!(sha256_of(&pm), id);
     // Asked again: the stored one, not built again.
     let again = s.get("/api/orders/12/matrix").json();
@@ -318,7 +482,12 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
     assert_eq!(l["matrices"][0]["origin"], "constructed");
     assert_eq!(l["catalogue_entry"], l["matrices"][0]["id"]);
     assert_eq!(s.get("/api/orders/32/matrices?limit=0").status, 400);
-    assert_eq!(s.get("/api/orders/32/matrices?limit=10&offset=1").json()["matrices"].as_array().map(Vec::len), Some(0));
+    assert_eq!(
+        s.get("/api/orders/32/matrices?limit=10&offset=1").json()["matrices"]
+            .as_array()
+            .map(Vec::len),
+        Some(0)
+    );
 
     // Orders with no implemented route: 404 that says the order's status.
     let r = s.get("/api/orders/6/matrix");
@@ -332,11 +501,23 @@ fn catalogue_matrices_are_built_on_demand_and_stored() {
 fn derived_objects_and_equivalence() {
     let dir = tempdir();
     let s = Server::start(&dir.path().join("d.sqlite3"), &[]);
-    let id12 = s.get("/api/orders/12/matrix").json()["id"].as_str().expect("an id").to_owned();
+    let id12 = s.get("/api/orders/12/matrix").json()["id"]
+        .as_str()
+        .expect("an id")
+        .to_owned();
     let meta = s.get(&format!("/api/matrices/{id12}")).json();
-    let link = |k: &str| meta["derived"][k].as_str().expect("a derived link").to_owned();
+    let link = |k: &str| {
+        meta["derived"][k]
+            .as_str()
+            .expect("a derived link")
+            .to_owned()
+    };
 
-    let d = s.get(&format!("/api/matrices/{id12}/derive/screening?factors=5&fold-over=true&centre-points=2&seed=3")).json();
+    let d = s
+        .get(&format!(
+            "/api/matrices/{id12}/derive/screening?factors=5&fold-over=true&centre-points=2&seed=3"
+        ))
+        .json();
     assert_eq!(d["runs"].as_array().map(Vec::len), Some(26));
     assert_eq!(d["properties"]["columns_orthogonal"], true);
     assert_eq!(d["randomisation"]["seed"], 3);
@@ -344,21 +525,56 @@ fn derived_objects_and_equivalence() {
     assert_eq!(csv.status, 200);
     assert_eq!(csv.header("content-type"), Some("text/csv; charset=utf-8"));
     assert!(csv.text().starts_with("run,standard_order,kind,A,"));
-    let bad = s.get(&format!("/api/matrices/{id12}/derive/screening?columns=1,12"));
-    assert_eq!((bad.status, bad.json()["parameter"].as_str()), (400, Some("columns")));
-    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/screening?seed=x")).status, 400);
-    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/nonsense")).status, 404);
+    let bad = s.get(&format!(
+        "/api/matrices/{id12}/derive/screening?columns=1,12"
+    ));
+    assert_eq!(
+        (bad.status, bad.json()["parameter"].as_str()),
+        (400, Some("columns"))
+    );
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id12}/derive/screening?seed=x"))
+            .status,
+        400
+    );
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id12}/derive/nonsense"))
+            .status,
+        404
+    );
 
     let c = s.get(&link("code_punctured")).json();
-    assert_eq!((c["length"].as_u64(), c["size"].as_u64(), c["min_distance"].as_u64()), (Some(11), Some(24), Some(5)));
+    assert_eq!(
+        (
+            c["length"].as_u64(),
+            c["size"].as_u64(),
+            c["min_distance"].as_u64()
+        ),
+        (Some(11), Some(24), Some(5))
+    );
     let b = s.get(&link("symmetric_design")).json();
-    assert_eq!((b["v"].as_u64(), b["k"].as_u64(), b["lambda"].as_u64(), b["verified_pairs"].as_bool()), (Some(11), Some(5), Some(2), Some(true)));
-    assert_eq!(s.get(&format!("/api/matrices/{id12}/derive/brr?strata=12")).status, 400);
+    assert_eq!(
+        (
+            b["v"].as_u64(),
+            b["k"].as_u64(),
+            b["lambda"].as_u64(),
+            b["verified_pairs"].as_bool()
+        ),
+        (Some(11), Some(5), Some(2), Some(true))
+    );
+    assert_eq!(
+        s.get(&format!("/api/matrices/{id12}/derive/brr?strata=12"))
+            .status,
+        400
+    );
 
     // Order 12 has no sequency order: a 422 that says so, with the sequencies.
     let q = s.get(&link("ordering_sequency"));
     assert_eq!(q.status, 422);
-    assert!(q.json()["error"].as_str().unwrap_or("").contains("Webb and Kennedy"));
+    assert!(q.json()["error"]
+        .as_str()
+        .unwrap_or("")
+        .contains("Webb and Kennedy"));
     let scaled = s.get(&link("scaled_csv"));
     assert!(scaled.text().starts_with("# SCALED"));
     assert_eq!(scaled.header("x-scaled"), Some("1/sqrt(n); not normalised"));
@@ -367,12 +583,25 @@ fn derived_objects_and_equivalence() {
     assert!(csv.starts_with("replicate,stratum_1,"), "{csv}");
     assert_eq!(csv.lines().count(), 17);
     let r = s.get("/api/brr?strata=13").json();
-    assert_eq!((r["replicates"].as_u64(), r["smallest_known_order"].as_u64(), r["balanced"].as_bool(), r["orthogonal"].as_bool()), (Some(16), Some(16), Some(true), Some(true)));
+    assert_eq!(
+        (
+            r["replicates"].as_u64(),
+            r["smallest_known_order"].as_u64(),
+            r["balanced"].as_bool(),
+            r["orthogonal"].as_bool()
+        ),
+        (Some(16), Some(16), Some(true), Some(true))
+    );
 
     // Equivalence of two stored matrices: Sylvester 16 and a negated variant are equivalent.
-    let up = s.post("/api/matrices", sylvester_variant(4, 0b1011).as_bytes()).json();
+    let up = s
+        .post("/api/matrices", sylvester_variant(4, 0b1011).as_bytes())
+        .json();
     let id16 = up["id"].as_str().expect("an id").to_owned();
-    let s16 = s.get("/api/orders/16/matrix").json()["id"].as_str().expect("an id").to_owned();
+    let s16 = s.get("/api/orders/16/matrix").json()["id"]
+        .as_str()
+        .expect("an id")
+        .to_owned();
     let e = s.get(&format!("/api/equivalence?a={s16}&b={id16}")).json();
     assert_eq!(e["verdict"], "equivalent", "{e}");
     assert!(e["certificate"]["row_map"].is_array());

@@ -17,7 +17,10 @@ fn many_clients_at_once() {
     let dir = tempfile::tempdir().expect("a temporary directory");
     let s = Server::start(&dir.path().join("registry.sqlite3"), &[]);
     let addr = s.addr;
-    let catalogue = s.get("/api/orders/16/matrix").json()["id"].as_str().expect("id").to_owned();
+    let catalogue = s.get("/api/orders/16/matrix").json()["id"]
+        .as_str()
+        .expect("id")
+        .to_owned();
     let started = Instant::now();
 
     let workers: Vec<_> = (0..CLIENTS)
@@ -30,20 +33,43 @@ fn many_clients_at_once() {
                     match k % 3 {
                         0 => {
                             let text = sylvester_variant(4, mask);
-                            let r = common::request(addr, "POST", "/api/matrices", &[], text.as_bytes());
-                            assert!(r.status == 201 || r.status == 200, "upload: {} {}", r.status, r.text());
+                            let r = common::request(
+                                addr,
+                                "POST",
+                                "/api/matrices",
+                                &[],
+                                text.as_bytes(),
+                            );
+                            assert!(
+                                r.status == 201 || r.status == 200,
+                                "upload: {} {}",
+                                r.status,
+                                r.text()
+                            );
                             assert_eq!(r.json()["id"], sha256_of(&text).as_str());
                             uploaded.insert(mask);
                         }
                         1 => {
-                            let r = common::request(addr, "GET", &format!("/api/matrices/{catalogue}"), &[], &[]);
+                            let r = common::request(
+                                addr,
+                                "GET",
+                                &format!("/api/matrices/{catalogue}"),
+                                &[],
+                                &[],
+                            );
                             assert_eq!(r.status, 200);
                             let r = common::request(addr, "GET", "/api/orders/16", &[], &[]);
                             assert_eq!(r.status, 200);
                         }
                         _ => {
                             let f = ["pm", "csv", "npy", "png", "json"][(k as usize / 3) % 5];
-                            let r = common::request(addr, "GET", &format!("/api/matrices/{catalogue}/download?format={f}"), &[], &[]);
+                            let r = common::request(
+                                addr,
+                                "GET",
+                                &format!("/api/matrices/{catalogue}/download?format={f}"),
+                                &[],
+                                &[],
+                            );
                             assert_eq!(r.status, 200, "download {f}");
                             assert!(!r.body.is_empty());
                         }
@@ -62,11 +88,23 @@ fn many_clients_at_once() {
 
     // Every distinct upload is stored exactly once, and nothing else.
     let l = s.get("/api/orders/16/matrices?limit=500").json();
-    let ids: Vec<&str> = l["matrices"].as_array().expect("a list").iter().map(|m| m["id"].as_str().expect("id")).collect();
+    let ids: Vec<&str> = l["matrices"]
+        .as_array()
+        .expect("a list")
+        .iter()
+        .map(|m| m["id"].as_str().expect("id"))
+        .collect();
     let unique: HashSet<&str> = ids.iter().copied().collect();
     assert_eq!(ids.len(), unique.len(), "duplicated rows");
-    let mut expected: HashSet<String> = all.iter().map(|&m| sha256_of(&sylvester_variant(4, m))).collect();
+    let mut expected: HashSet<String> = all
+        .iter()
+        .map(|&m| sha256_of(&sylvester_variant(4, m)))
+        .collect();
     expected.insert(catalogue.clone());
-    assert_eq!(unique, expected.iter().map(String::as_str).collect::<HashSet<_>>(), "lost or extra rows");
+    assert_eq!(
+        unique,
+        expected.iter().map(String::as_str).collect::<HashSet<_>>(),
+        "lost or extra rows"
+    );
     assert_eq!(l["total"], expected.len());
 }

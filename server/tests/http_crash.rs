@@ -30,7 +30,11 @@ fn acknowledged_uploads_survive_sigkill() {
                 let text = sylvester_variant(5, mask);
                 match try_request(addr, "POST", "/api/matrices", &[], text.as_bytes()) {
                     Ok(r) if r.status == 201 => acked.lock().expect("lock").push(sha256_of(&text)),
-                    Ok(r) => panic!("unexpected status {} before the kill: {}", r.status, r.text()),
+                    Ok(r) => panic!(
+                        "unexpected status {} before the kill: {}",
+                        r.status,
+                        r.text()
+                    ),
                     // The kill: connections are refused or cut from here on.
                     Err(_) => break,
                 }
@@ -48,27 +52,54 @@ fn acknowledged_uploads_survive_sigkill() {
         w.join().expect("a worker");
     }
     let acked = acked.lock().expect("lock").clone();
-    assert!(acked.len() >= 40, "only {} uploads were acknowledged before the kill", acked.len());
+    assert!(
+        acked.len() >= 40,
+        "only {} uploads were acknowledged before the kill",
+        acked.len()
+    );
 
     // The file is sound, and holds every acknowledged upload (and possibly a few that were
     // committed but not yet answered).
     {
         let c = rusqlite::Connection::open(&db).expect("open the database");
-        let ok: String = c.query_row("PRAGMA integrity_check", [], |r| r.get(0)).expect("integrity_check");
+        let ok: String = c
+            .query_row("PRAGMA integrity_check", [], |r| r.get(0))
+            .expect("integrity_check");
         assert_eq!(ok, "ok");
-        let n: i64 = c.query_row("SELECT count(*) FROM matrices", [], |r| r.get(0)).expect("count");
-        assert!(n as usize >= acked.len(), "{n} rows for {} acknowledged uploads", acked.len());
-        assert!((n as usize) <= acked.len() + 4, "{n} rows: at most one unanswered upload per client can have been committed");
+        let n: i64 = c
+            .query_row("SELECT count(*) FROM matrices", [], |r| r.get(0))
+            .expect("count");
+        assert!(
+            n as usize >= acked.len(),
+            "{n} rows for {} acknowledged uploads",
+            acked.len()
+        );
+        assert!(
+            (n as usize) <= acked.len() + 4,
+            "{n} rows: at most one unanswered upload per client can have been committed"
+        );
     }
     let s = Server::start(&db, &[]);
     for id in &acked {
         let r = s.get(&format!("/api/matrices/{id}"));
-        assert_eq!(r.status, 200, "acknowledged upload {id} is missing after the restart");
+        assert_eq!(
+            r.status, 200,
+            "acknowledged upload {id} is missing after the restart"
+        );
     }
     // And it keeps working.
     let r = s.post("/api/matrices", sylvester_variant(5, 1 << 50).as_bytes());
     assert_eq!(r.status, 201);
     drop(s);
-    let out = common::hadamard().args(["audit", "--db"]).arg(&db).output().expect("run audit");
-    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stdout));
+    let out = common::hadamard()
+        .args(["audit", "--db"])
+        .arg(&db)
+        .output()
+        .expect("run audit");
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stdout)
+    );
 }

@@ -158,7 +158,11 @@ pub fn Entry(id: String) -> impl IntoView {
     let id_dl = id.clone();
     let id_derived = id.clone();
     // A seed for the screening links, taken from the id so the links are stable; editable.
-    let seed = RwSignal::new(u32::from_str_radix(id.get(..8).unwrap_or("1"), 16).unwrap_or(1).to_string());
+    let seed = RwSignal::new(
+        u32::from_str_radix(id.get(..8).unwrap_or("1"), 16)
+            .unwrap_or(1)
+            .to_string(),
+    );
     let strata = RwSignal::new(String::from("10"));
     let other = RwSignal::new(String::new());
     view! {

@@ -17,7 +17,10 @@ pub fn naf(a: &[i8], s: usize) -> i64 {
     if s >= a.len() {
         return 0;
     }
-    a.iter().zip(&a[s..]).map(|(&x, &y)| x as i64 * y as i64).sum()
+    a.iter()
+        .zip(&a[s..])
+        .map(|(&x, &y)| x as i64 * y as i64)
+        .sum()
 }
 
 /// Periodic autocorrelation of `a` at shift `s` (taken mod len).
@@ -60,7 +63,11 @@ impl GolayPair {
     /// Checks the defining identity.
     pub fn is_valid(&self) -> bool {
         let g = self.a.len();
-        g > 0 && self.b.len() == g && is_pm1(&self.a) && is_pm1(&self.b) && (1..g).all(|s| naf(&self.a, s) + naf(&self.b, s) == 0)
+        g > 0
+            && self.b.len() == g
+            && is_pm1(&self.a)
+            && is_pm1(&self.b)
+            && (1..g).all(|s| naf(&self.a, s) + naf(&self.b, s) == 0)
     }
 }
 
@@ -82,8 +89,11 @@ impl BaseSequences {
             && self.b.len() == l
             && self.d.len() == n
             && l >= n
-            && [&self.a, &self.b, &self.c, &self.d].iter().all(|x| is_pm1(x))
-            && (1..l).all(|s| naf(&self.a, s) + naf(&self.b, s) + naf(&self.c, s) + naf(&self.d, s) == 0)
+            && [&self.a, &self.b, &self.c, &self.d]
+                .iter()
+                .all(|x| is_pm1(x))
+            && (1..l)
+                .all(|s| naf(&self.a, s) + naf(&self.b, s) + naf(&self.c, s) + naf(&self.d, s) == 0)
     }
 }
 
@@ -110,8 +120,12 @@ impl TurynType {
             && self.b.len() == n
             && self.c.len() == n
             && self.d.len() == n - 1
-            && [&self.a, &self.b, &self.c, &self.d].iter().all(|x| is_pm1(x))
-            && (1..n).all(|s| naf(&self.a, s) + naf(&self.b, s) + 2 * naf(&self.c, s) + 2 * naf(&self.d, s) == 0)
+            && [&self.a, &self.b, &self.c, &self.d]
+                .iter()
+                .all(|x| is_pm1(x))
+            && (1..n).all(|s| {
+                naf(&self.a, s) + naf(&self.b, s) + 2 * naf(&self.c, s) + 2 * naf(&self.d, s) == 0
+            })
     }
 }
 
@@ -135,7 +149,10 @@ impl TSequences {
     pub fn is_valid(&self) -> bool {
         let t = self.len();
         t > 0
-            && self.t.iter().all(|x| x.len() == t && x.iter().all(|&v| (-1..=1).contains(&v)))
+            && self
+                .t
+                .iter()
+                .all(|x| x.len() == t && x.iter().all(|&v| (-1..=1).contains(&v)))
             && (0..t).all(|i| self.t.iter().filter(|x| x[i] != 0).count() == 1)
             && (1..t).all(|s| self.t.iter().map(|x| naf(x, s)).sum::<i64>() == 0)
     }
@@ -162,7 +179,9 @@ impl Williamson {
         let rows = [&self.a, &self.b, &self.c, &self.d];
         let m = self.a.len();
         m > 0
-            && rows.iter().all(|x| x.len() == m && is_pm1(x) && is_symmetric_row(x))
+            && rows
+                .iter()
+                .all(|x| x.len() == m && is_pm1(x) && is_symmetric_row(x))
             && (1..m).all(|s| rows.iter().map(|x| paf(x, s)).sum::<i64>() == 0)
     }
 }
@@ -183,18 +202,21 @@ impl GsQuadruple {
     /// Checks entries and the identity.
     pub fn is_valid(&self) -> bool {
         let v = self.v();
-        v > 0 && self.a.iter().all(|x| x.len() == v && is_pm1(x)) && (1..v).all(|s| self.a.iter().map(|x| paf(x, s)).sum::<i64>() == 0)
+        v > 0
+            && self.a.iter().all(|x| x.len() == v && is_pm1(x))
+            && (1..v).all(|s| self.a.iter().map(|x| paf(x, s)).sum::<i64>() == 0)
     }
 }
 
 /// Writes a (0, ±1) sequence as text: `+`, `-` and `0`.
 pub fn to_text(a: &[i8]) -> String {
-    a.iter().map(|&x| match x {
-        1 => '+',
-        -1 => '-',
-        _ => '0',
-    })
-    .collect()
+    a.iter()
+        .map(|&x| match x {
+            1 => '+',
+            -1 => '-',
+            _ => '0',
+        })
+        .collect()
 }
 
 /// Reads a sequence written by [`to_text`]. Returns the index of the first bad character.
@@ -221,19 +243,42 @@ mod tests {
     #[test]
     fn golay_pair_of_length_two_and_a_bad_one() {
         // The length-2 pair (++, +-) is the standard seed of Golay's recursion [common practice].
-        assert!(GolayPair { a: s("++"), b: s("+-") }.is_valid());
-        assert!(!GolayPair { a: s("++"), b: s("++") }.is_valid());
+        assert!(GolayPair {
+            a: s("++"),
+            b: s("+-")
+        }
+        .is_valid());
+        assert!(!GolayPair {
+            a: s("++"),
+            b: s("++")
+        }
+        .is_valid());
     }
 
     #[test]
     fn williamson_of_order_one_and_three() {
         // m = 1: A = B = C = D = (1): 4·1 = 4·1. m = 3: A = J, B = C = D = J − 2I gives
         // A² + 3(J − 2I)² = 3J + 3(3J − 4J + 4I) = 12I [derived].
-        let one = Williamson { a: s("+"), b: s("+"), c: s("+"), d: s("+") };
+        let one = Williamson {
+            a: s("+"),
+            b: s("+"),
+            c: s("+"),
+            d: s("+"),
+        };
         assert!(one.is_valid());
-        let three = Williamson { a: s("+++"), b: s("+--"), c: s("+--"), d: s("+--") };
+        let three = Williamson {
+            a: s("+++"),
+            b: s("+--"),
+            c: s("+--"),
+            d: s("+--"),
+        };
         assert!(three.is_valid());
-        let bad = Williamson { a: s("+++"), b: s("+++"), c: s("+--"), d: s("+--") };
+        let bad = Williamson {
+            a: s("+++"),
+            b: s("+++"),
+            c: s("+--"),
+            d: s("+--"),
+        };
         assert!(!bad.is_valid());
     }
 
@@ -246,9 +291,13 @@ mod tests {
 
     #[test]
     fn t_sequences_of_length_one() {
-        let t = TSequences { t: [vec![1], vec![0], vec![0], vec![0]] };
+        let t = TSequences {
+            t: [vec![1], vec![0], vec![0], vec![0]],
+        };
         assert!(t.is_valid());
-        let two_nonzero = TSequences { t: [vec![1], vec![1], vec![0], vec![0]] };
+        let two_nonzero = TSequences {
+            t: [vec![1], vec![1], vec![0], vec![0]],
+        };
         assert!(!two_nonzero.is_valid());
     }
 }

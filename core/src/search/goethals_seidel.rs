@@ -156,7 +156,6 @@ pub fn multiplier_choices(v: usize, max_orbits: usize) -> Vec<(usize, usize, usi
     out
 }
 
-
 /// A unit: a decomposition and a range of its outer sequences.
 pub type Unit = super::SliceUnit;
 
@@ -202,7 +201,10 @@ fn make_seq(a: &[i32], bits: u64, probes: &[usize], cos: &[f64], sin: &[f64]) ->
 
 fn unit_circle(v: usize) -> (Vec<f64>, Vec<f64>) {
     let angle = |t: usize| 2.0 * std::f64::consts::PI * t as f64 / v as f64;
-    ((0..v).map(|t| angle(t).cos()).collect(), (0..v).map(|t| angle(t).sin()).collect())
+    (
+        (0..v).map(|t| angle(t).cos()).collect(),
+        (0..v).map(|t| angle(t).sin()).collect(),
+    )
 }
 
 fn sequences_with_sum(v: usize, sum: i64, probes: &[usize]) -> Vec<Seq> {
@@ -224,7 +226,12 @@ fn sequences_with_sum(v: usize, sum: i64, probes: &[usize]) -> Vec<Seq> {
 }
 
 /// The sign choices on `orbits` (bit i: orbit i is −1) whose sequence has row sum `sum`.
-fn orbit_sequences_with_sum(v: usize, orbits: &[Vec<usize>], sum: i64, probes: &[usize]) -> Vec<Seq> {
+fn orbit_sequences_with_sum(
+    v: usize,
+    orbits: &[Vec<usize>],
+    sum: i64,
+    probes: &[usize],
+) -> Vec<Seq> {
     let neg = (v as i64 - sum) / 2;
     let sizes: Vec<i64> = orbits.iter().map(|o| o.len() as i64).collect();
     let (cos, sin) = unit_circle(v);
@@ -236,7 +243,11 @@ fn orbit_sequences_with_sum(v: usize, orbits: &[Vec<usize>], sum: i64, probes: &
             let (cos, sin, sizes) = (&cos, &sin, &sizes);
             (c * chunk..((c + 1) * chunk).min(total))
                 .filter(move |&b| {
-                    (0..sizes.len()).filter(|i| b >> i & 1 == 1).map(|i| sizes[i]).sum::<i64>() == neg
+                    (0..sizes.len())
+                        .filter(|i| b >> i & 1 == 1)
+                        .map(|i| sizes[i])
+                        .sum::<i64>()
+                        == neg
                 })
                 .filter_map(move |b| make_seq(&expand_orbits(v, orbits, b), b, probes, cos, sin))
         })
@@ -330,7 +341,11 @@ impl GsSearch {
         let probes: Vec<usize> = (1..=v / 2).collect();
         let candidates = |s: i64| sequences_with_sum(v, s, &probes);
         let decompositions = Self::decompositions(v, candidates);
-        GsSearch { v, shape: Shape::Plain, decompositions }
+        GsSearch {
+            v,
+            shape: Shape::Plain,
+            decompositions,
+        }
     }
 
     /// Prepares the search over the sequences of length v fixed by the multipliers ⟨g⟩ mod v.
@@ -341,18 +356,28 @@ impl GsSearch {
         let h = multiplier_group(v, g % v);
         let orbits = self::orbits(v, &h);
         if orbits.len() > MAX_ORBITS {
-            return Err(ShapeError::TooManyOrbits { orbits: orbits.len() });
+            return Err(ShapeError::TooManyOrbits {
+                orbits: orbits.len(),
+            });
         }
         let symmetric = h.contains(&(v - 1));
         let mut with_minus: Vec<usize> = h.iter().flat_map(|&x| [x, v - x]).collect();
         with_minus.sort_unstable();
         with_minus.dedup();
-        let probes: Vec<usize> = self::orbits(v, &with_minus).iter().skip(1).map(|o| o[0]).collect();
+        let probes: Vec<usize> = self::orbits(v, &with_minus)
+            .iter()
+            .skip(1)
+            .map(|o| o[0])
+            .collect();
         let candidates = |s: i64| orbit_sequences_with_sum(v, &orbits, s, &probes);
         let decompositions = Self::decompositions(v, candidates);
         Ok(GsSearch {
             v,
-            shape: Shape::Orbits { multiplier: g % v, orbits, symmetric },
+            shape: Shape::Orbits {
+                multiplier: g % v,
+                orbits,
+                symmetric,
+            },
             decompositions,
         })
     }
@@ -407,11 +432,19 @@ impl GsSearch {
     /// (−1 is a multiplier), a Goethals–Seidel line otherwise; `None` if the exact identity
     /// fails (it never should: the table only narrows the candidates).
     fn result(&self, picks: [u64; 4]) -> Option<String> {
-        let quad = GsQuadruple { a: picks.map(|b| self.expand(b)) };
+        let quad = GsQuadruple {
+            a: picks.map(|b| self.expand(b)),
+        };
         if !quad.is_valid() {
             return None;
         }
-        if matches!(self.shape, Shape::Orbits { symmetric: true, .. }) {
+        if matches!(
+            self.shape,
+            Shape::Orbits {
+                symmetric: true,
+                ..
+            }
+        ) {
             let [a, b, c, d] = quad.a;
             let w = Williamson { a, b, c, d };
             return w.is_valid().then(|| super::williamson::line(&w));
@@ -539,7 +572,10 @@ mod tests {
         ));
         // 2^7 = 128 ≡ 1 mod 127: seven multipliers, 126/7 = 18 orbits and {0}.
         assert_eq!(orbits(127, &multiplier_group(127, 2)).len(), 19);
-        assert_eq!(GsSearch::with_multiplier(13, 3).map(|s| s.degrees_of_freedom()), Ok(5));
+        assert_eq!(
+            GsSearch::with_multiplier(13, 3).map(|s| s.degrees_of_freedom()),
+            Ok(5)
+        );
     }
 
     /// A result line read back by the seed parser, which checks its defining identity.
@@ -569,7 +605,9 @@ mod tests {
         for line in &found {
             let cat = parsed(line);
             assert_eq!(cat.goethals_seidel.len(), 1, "{line}");
-            assert!(cat.goethals_seidel[0].data.is_valid() && cat.goethals_seidel[0].data.v() == 73);
+            assert!(
+                cat.goethals_seidel[0].data.is_valid() && cat.goethals_seidel[0].data.v() == 73
+            );
         }
     }
 }

@@ -259,7 +259,11 @@ pub(crate) fn slice_units(lens: impl IntoIterator<Item = Option<usize>>) -> Vec<
         let step = n.div_ceil(256).max(1);
         let mut from = 0;
         while from < n {
-            out.push(SliceUnit { decomposition, from, to: (from + step).min(n) });
+            out.push(SliceUnit {
+                decomposition,
+                from,
+                to: (from + step).min(n),
+            });
             from += step;
         }
     }

@@ -400,7 +400,9 @@ impl Search for WilliamsonSearch {
 
     fn units(&self) -> Vec<Unit> {
         super::slice_units(
-            self.decompositions.iter().map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.leaders.len())),
+            self.decompositions
+                .iter()
+                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.leaders.len())),
         )
     }
 

@@ -22,9 +22,14 @@ pub async fn dimension(State(state): State<Arc<AppState>>, Path(d): Path<String>
 /// `GET /api/smallest-known?at-least=k[&constructible=true]`: the smallest order n ≥ k that
 /// is known (or, with `constructible=true`, that this program builds now), as the
 /// `routes --json` object of n. 404 when there is none below the planner's range.
-pub async fn smallest_known(State(state): State<Arc<AppState>>, Query(q): Query<HashMap<String, String>>) -> ApiResult {
+pub async fn smallest_known(
+    State(state): State<Arc<AppState>>,
+    Query(q): Query<HashMap<String, String>>,
+) -> ApiResult {
     let Some(k) = q.get("at-least") else {
-        return Err(ApiError::bad_request("give the least acceptable order as ?at-least=k"));
+        return Err(ApiError::bad_request(
+            "give the least acceptable order as ?at-least=k",
+        ));
     };
     let k = parse_positive("at-least", k, ORDER_QUERY_MAX)?;
     let constructible = match q.get("constructible").map(String::as_str) {
@@ -32,9 +37,24 @@ pub async fn smallest_known(State(state): State<Arc<AppState>>, Query(q): Query<
         Some("true") | Some("1") => true,
         Some(_) => return Err(ApiError::bad_request("constructible must be true or false")),
     };
-    let found = heavy(&state, move |_| if constructible { route::smallest_constructible_at_least(k) } else { route::smallest_known_at_least(k) }).await?;
+    let found = heavy(&state, move |_| {
+        if constructible {
+            route::smallest_constructible_at_least(k)
+        } else {
+            route::smallest_known_at_least(k)
+        }
+    })
+    .await?;
     match found {
         Some(info) => Ok(Json(info).into_response()),
-        None => Err(ApiError::not_found(format!("no {} order at least {k} was found", if constructible { "constructible" } else { "known" })).with("at_least", k)),
+        None => Err(ApiError::not_found(format!(
+            "no {} order at least {k} was found",
+            if constructible {
+                "constructible"
+            } else {
+                "known"
+            }
+        ))
+        .with("at_least", k)),
     }
 }

@@ -17,16 +17,31 @@ pub const COVERAGE_MAX: u64 = 100_000;
 
 /// The `coverage --json` list: `[{"order": n, "status": S}, ...]`, from the store up to the
 /// seeded maximum and from the planner above it.
-pub async fn show(State(state): State<Arc<AppState>>, Query(q): Query<HashMap<String, String>>) -> ApiResult {
+pub async fn show(
+    State(state): State<Arc<AppState>>,
+    Query(q): Query<HashMap<String, String>>,
+) -> ApiResult {
     let Some(max) = q.get("max") else {
         return Err(ApiError::bad_request("give the largest order as ?max=M"));
     };
     let max = parse_positive("max", max, COVERAGE_MAX)?;
     let list: Vec<(u64, String)> = if max <= SEED_MAX_ORDER {
-        blocking(&state, move |c| c.store.read(|db| orders::statuses_up_to(db, max))).await??
+        blocking(&state, move |c| {
+            c.store.read(|db| orders::statuses_up_to(db, max))
+        })
+        .await??
     } else {
-        heavy(&state, move |_| route::coverage(max).into_iter().map(|(n, s)| (n, status_name(s))).collect()).await?
+        heavy(&state, move |_| {
+            route::coverage(max)
+                .into_iter()
+                .map(|(n, s)| (n, status_name(s)))
+                .collect()
+        })
+        .await?
     };
-    let body: Vec<_> = list.into_iter().map(|(n, s)| json!({"order": n, "status": s})).collect();
+    let body: Vec<_> = list
+        .into_iter()
+        .map(|(n, s)| json!({"order": n, "status": s}))
+        .collect();
     Ok(Json(body).into_response())
 }

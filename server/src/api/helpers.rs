@@ -19,7 +19,10 @@ pub struct ApiError {
 
 impl ApiError {
     pub fn new(status: StatusCode, message: impl Into<String>) -> ApiError {
-        ApiError { status, body: json!({ "error": message.into() }) }
+        ApiError {
+            status,
+            body: json!({ "error": message.into() }),
+        }
     }
 
     /// Adds a field to the body.
@@ -72,19 +75,32 @@ impl From<LoadError> for ApiError {
 pub type ApiResult<T = Response> = Result<T, ApiError>;
 
 /// Runs quick blocking work (a store query) on a blocking thread.
-pub async fn blocking<T: Send + 'static>(state: &Arc<AppState>, f: impl FnOnce(&Catalogue) -> T + Send + 'static) -> ApiResult<T> {
+pub async fn blocking<T: Send + 'static>(
+    state: &Arc<AppState>,
+    f: impl FnOnce(&Catalogue) -> T + Send + 'static,
+) -> ApiResult<T> {
     let st = state.clone();
-    tokio::task::spawn_blocking(move || f(&st.catalogue)).await.map_err(|e| {
-        tracing::error!(error = %e, "blocking task failed");
-        ApiError::internal("internal error; it is logged")
-    })
+    tokio::task::spawn_blocking(move || f(&st.catalogue))
+        .await
+        .map_err(|e| {
+            tracing::error!(error = %e, "blocking task failed");
+            ApiError::internal("internal error; it is logged")
+        })
 }
 
 /// Runs CPU-heavy work (parsing, the exact check, a construction, a picture) on a blocking
 /// thread, at most `--heavy-jobs` at once. The permit moves into the thread, so a request
 /// that times out does not free it before the work is done.
-pub async fn heavy<T: Send + 'static>(state: &Arc<AppState>, f: impl FnOnce(&Catalogue) -> T + Send + 'static) -> ApiResult<T> {
-    let permit = state.heavy.clone().acquire_owned().await.map_err(|_| ApiError::internal("the server is shutting down"))?;
+pub async fn heavy<T: Send + 'static>(
+    state: &Arc<AppState>,
+    f: impl FnOnce(&Catalogue) -> T + Send + 'static,
+) -> ApiResult<T> {
+    let permit = state
+        .heavy
+        .clone()
+        .acquire_owned()
+        .await
+        .map_err(|_| ApiError::internal("the server is shutting down"))?;
     let st = state.clone();
     tokio::task::spawn_blocking(move || {
         let _permit = permit;
@@ -101,9 +117,15 @@ pub async fn heavy<T: Send + 'static>(state: &Arc<AppState>, f: impl FnOnce(&Cat
 pub fn parse_positive(what: &str, s: &str, max: u64) -> ApiResult<u64> {
     match s.parse::<u64>() {
         Ok(0) => Err(ApiError::bad_request(format!("{what} must be at least 1"))),
-        Ok(v) if v > max => Err(ApiError::bad_request(format!("{what} {v} is above the largest this server answers for, {max}")).with("limit", max)),
+        Ok(v) if v > max => Err(ApiError::bad_request(format!(
+            "{what} {v} is above the largest this server answers for, {max}"
+        ))
+        .with("limit", max)),
         Ok(v) => Ok(v),
-        Err(_) => Err(ApiError::bad_request(format!("{what} must be a positive integer, not `{}`", truncate(s, 40)))),
+        Err(_) => Err(ApiError::bad_request(format!(
+            "{what} must be a positive integer, not `{}`",
+            truncate(s, 40)
+        ))),
     }
 }
 
@@ -127,16 +149,28 @@ pub fn truncate(s: &str, max: usize) -> String {
 
 /// True when the request's `If-None-Match` names `etag` (weak comparison, RFC 9110 §13.1.2).
 pub fn if_none_match(headers: &HeaderMap, etag: &str) -> bool {
-    headers.get_all(header::IF_NONE_MATCH).iter().filter_map(|v| v.to_str().ok()).any(|v| {
-        v.split(',').map(str::trim).any(|t| t == "*" || t.strip_prefix("W/").unwrap_or(t) == etag)
-    })
+    headers
+        .get_all(header::IF_NONE_MATCH)
+        .iter()
+        .filter_map(|v| v.to_str().ok())
+        .any(|v| {
+            v.split(',')
+                .map(str::trim)
+                .any(|t| t == "*" || t.strip_prefix("W/").unwrap_or(t) == etag)
+        })
 }
 
 /// The headers of an immutable representation.
 pub fn immutable_headers(etag: &str) -> [(header::HeaderName, HeaderValue); 2] {
     [
-        (header::ETAG, HeaderValue::from_str(etag).unwrap_or_else(|_| HeaderValue::from_static("\"invalid\""))),
-        (header::CACHE_CONTROL, HeaderValue::from_static("public, max-age=31536000, immutable")),
+        (
+            header::ETAG,
+            HeaderValue::from_str(etag).unwrap_or_else(|_| HeaderValue::from_static("\"invalid\"")),
+        ),
+        (
+            header::CACHE_CONTROL,
+            HeaderValue::from_static("public, max-age=31536000, immutable"),
+        ),
     ]
 }
 

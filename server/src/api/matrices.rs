@@ -1,6 +1,9 @@
 //! `/api/matrices`: upload, metadata, downloads and single rows of stored matrices.
 
-use super::helpers::{blocking, heavy, if_none_match, immutable_headers, not_modified, parse_id, truncate, ApiError, ApiResult};
+use super::helpers::{
+    blocking, heavy, if_none_match, immutable_headers, not_modified, parse_id, truncate, ApiError,
+    ApiResult,
+};
 use crate::app::AppState;
 use crate::catalogue::{Equivalence, Ingested, UploadError, UploadOutcome};
 use crate::store::matrices::{self, MatrixRecord, Origin};
@@ -16,36 +19,77 @@ use std::collections::HashMap;
 use std::sync::Arc;
 
 /// The download formats, as `?format=` names.
-pub const DOWNLOAD_FORMATS: &[&str] = &["pm", "csv", "bits", "json", "npy", "npy-f64", "npy-f64-scaled", "png"];
+pub const DOWNLOAD_FORMATS: &[&str] = &[
+    "pm",
+    "csv",
+    "bits",
+    "json",
+    "npy",
+    "npy-f64",
+    "npy-f64-scaled",
+    "png",
+];
 
 /// `POST /api/matrices`: the raw body is a matrix file in any input format (or the one
 /// `?format=` forces; `?bits-minus=0` says `0` stands for −1 in `bits`). The server parses and
 /// runs the exact check itself. 201 stored now, 200 already stored, 422 not Hadamard (with
 /// the failing pairs) or with erased entries, 400 malformed (with the place), 413 too large.
-pub async fn upload(State(state): State<Arc<AppState>>, Query(q): Query<HashMap<String, String>>, headers: HeaderMap, body: Body) -> ApiResult {
+pub async fn upload(
+    State(state): State<Arc<AppState>>,
+    Query(q): Query<HashMap<String, String>>,
+    headers: HeaderMap,
+    body: Body,
+) -> ApiResult {
     let limit = state.config.max_body_bytes;
-    let too_large = || ApiError::new(StatusCode::PAYLOAD_TOO_LARGE, format!("the body is larger than this server's limit of {limit} bytes (--max-body)")).with("limit", limit);
+    let too_large = || {
+        ApiError::new(
+            StatusCode::PAYLOAD_TOO_LARGE,
+            format!("the body is larger than this server's limit of {limit} bytes (--max-body)"),
+        )
+        .with("limit", limit)
+    };
     // A declared length over the limit is refused before a byte of the body is read.
-    let declared = headers.get(header::CONTENT_LENGTH).and_then(|v| v.to_str().ok()).and_then(|v| v.trim().parse::<u64>().ok());
+    let declared = headers
+        .get(header::CONTENT_LENGTH)
+        .and_then(|v| v.to_str().ok())
+        .and_then(|v| v.trim().parse::<u64>().ok());
     if declared.is_some_and(|d| d > limit as u64) {
         return Err(too_large());
     }
-    let mut opts = ReadOptions { max_order: state.config.max_order, ..ReadOptions::default() };
+    let mut opts = ReadOptions {
+        max_order: state.config.max_order,
+        ..ReadOptions::default()
+    };
     if let Some(f) = q.get("format") {
-        opts.format = Some(f.parse::<Format>().map_err(|_| ApiError::bad_request(format!("unknown format `{}`: use pm, int (csv), bits, json or npy", truncate(f, 40))))?);
+        opts.format = Some(f.parse::<Format>().map_err(|_| {
+            ApiError::bad_request(format!(
+                "unknown format `{}`: use pm, int (csv), bits, json or npy",
+                truncate(f, 40)
+            ))
+        })?);
     }
     match q.get("bits-minus").map(String::as_str) {
         None | Some("1") => {}
         Some("0") => opts.bits_one_is_negative = false,
-        Some(_) => return Err(ApiError::bad_request("bits-minus must be 0 or 1: the digit that stands for −1")),
+        Some(_) => {
+            return Err(ApiError::bad_request(
+                "bits-minus must be 0 or 1: the digit that stands for −1",
+            ))
+        }
     }
     let bytes = match Limited::new(body, limit).collect().await {
         Ok(c) => c.to_bytes(),
         Err(e) if e.downcast_ref::<LengthLimitError>().is_some() => return Err(too_large()),
-        Err(e) => return Err(ApiError::bad_request(format!("could not read the request body: {e}"))),
+        Err(e) => {
+            return Err(ApiError::bad_request(format!(
+                "could not read the request body: {e}"
+            )))
+        }
     };
     if bytes.is_empty() {
-        return Err(ApiError::bad_request("the body is empty: send the matrix file as the raw request body"));
+        return Err(ApiError::bad_request(
+            "the body is empty: send the matrix file as the raw request body",
+        ));
     }
     let outcome = heavy(&state, move |c| c.upload(&bytes, &opts)).await?;
     match outcome {
@@ -78,10 +122,16 @@ pub async fn upload(State(state): State<Arc<AppState>>, Query(q): Query<HashMap<
 
 fn not_hadamard_message(r: &hadamard_core::verify::Report) -> String {
     if r.order != r.cols {
-        format!("not a Hadamard matrix: it is {}×{}, not square", r.order, r.cols)
+        format!(
+            "not a Hadamard matrix: it is {}×{}, not square",
+            r.order, r.cols
+        )
     } else if r.failing_pairs_total > 0 {
         let k = r.failing_pairs_total;
-        format!("not a Hadamard matrix: {k} row pair{} not orthogonal", if k == 1 { " is" } else { "s are" })
+        format!(
+            "not a Hadamard matrix: {k} row pair{} not orthogonal",
+            if k == 1 { " is" } else { "s are" }
+        )
     } else {
         format!("not a Hadamard matrix: no Hadamard matrix of order {} exists (it is not 1, 2 or a multiple of 4)", r.order)
     }
@@ -136,8 +186,12 @@ fn raw_json(text: &str) -> Value {
 
 fn provenance_json(r: &MatrixRecord) -> Value {
     match r.origin {
-        Origin::Constructed => json!({"kind": "constructed", "constructed_at": r.created_at, "recipe": r.recipe_json.as_deref().map(raw_json)}),
-        Origin::Uploaded => json!({"kind": "uploaded", "uploaded_at": r.created_at, "received_format": r.received_format}),
+        Origin::Constructed => {
+            json!({"kind": "constructed", "constructed_at": r.created_at, "recipe": r.recipe_json.as_deref().map(raw_json)})
+        }
+        Origin::Uploaded => {
+            json!({"kind": "uploaded", "uploaded_at": r.created_at, "received_format": r.received_format})
+        }
     }
 }
 
@@ -162,11 +216,27 @@ pub fn summary_json(r: &MatrixRecord) -> Value {
 pub async fn show(State(state): State<Arc<AppState>>, Path(id): Path<String>) -> ApiResult {
     let id = parse_id(&id)?.to_owned();
     let key = id.clone();
-    let (rec, entry) = blocking(&state, move |c| c.store.read(|db| Ok((matrices::get(db, &key)?, matrices::catalogue_entry_of(db, &key)?)))).await??;
+    let (rec, entry) = blocking(&state, move |c| {
+        c.store.read(|db| {
+            Ok((
+                matrices::get(db, &key)?,
+                matrices::catalogue_entry_of(db, &key)?,
+            ))
+        })
+    })
+    .await??;
     let Some(r) = rec else {
         return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
     };
-    let downloads: serde_json::Map<String, Value> = DOWNLOAD_FORMATS.iter().map(|f| ((*f).to_owned(), json!(format!("/api/matrices/{id}/download?format={f}")))).collect();
+    let downloads: serde_json::Map<String, Value> = DOWNLOAD_FORMATS
+        .iter()
+        .map(|f| {
+            (
+                (*f).to_owned(),
+                json!(format!("/api/matrices/{id}/download?format={f}")),
+            )
+        })
+        .collect();
     Ok(Json(json!({
         "id": r.id,
         "url": format!("/m/{}", r.id),
@@ -209,21 +279,31 @@ fn derived_links(id: &str, order: usize) -> Value {
 /// A download format with its options, and the tag that tells its representation apart.
 fn download_format(q: &HashMap<String, String>) -> ApiResult<(WriteFormat, String)> {
     let name = q.get("format").map(String::as_str).unwrap_or("pm");
-    let mut f: WriteFormat = name
-        .parse()
-        .map_err(|_| ApiError::bad_request(format!("unknown download format `{}`: use one of {}", truncate(name, 40), DOWNLOAD_FORMATS.join(", "))))?;
+    let mut f: WriteFormat = name.parse().map_err(|_| {
+        ApiError::bad_request(format!(
+            "unknown download format `{}`: use one of {}",
+            truncate(name, 40),
+            DOWNLOAD_FORMATS.join(", ")
+        ))
+    })?;
     let tag = match &mut f {
         WriteFormat::Bits { one_is_negative } => {
             match q.get("minus").map(String::as_str) {
                 None | Some("1") => *one_is_negative = true,
                 Some("0") => *one_is_negative = false,
-                Some(_) => return Err(ApiError::bad_request("minus must be 0 or 1: the digit that stands for −1 in `bits`")),
+                Some(_) => {
+                    return Err(ApiError::bad_request(
+                        "minus must be 0 or 1: the digit that stands for −1 in `bits`",
+                    ))
+                }
             }
             format!("bits-minus{}", if *one_is_negative { 1 } else { 0 })
         }
         WriteFormat::Png { scale, .. } => {
             if let Some(s) = q.get("scale") {
-                *scale = s.parse::<u32>().ok().filter(|s| *s <= 32).ok_or_else(|| ApiError::bad_request("scale must be an integer from 0 (automatic) to 32"))?;
+                *scale = s.parse::<u32>().ok().filter(|s| *s <= 32).ok_or_else(|| {
+                    ApiError::bad_request("scale must be an integer from 0 (automatic) to 32")
+                })?;
             }
             format!("png-s{scale}")
         }
@@ -235,7 +315,12 @@ fn download_format(q: &HashMap<String, String>) -> ApiResult<(WriteFormat, Strin
 /// `GET /api/matrices/{id}/download?format=F`: the matrix in format F (`pm` by default;
 /// `bits` takes `minus=1|0`, `png` takes `scale=0..32`). Strong ETag `"<id>.<format>"`,
 /// immutable caching, 304 on `If-None-Match`.
-pub async fn download(State(state): State<Arc<AppState>>, Path(id): Path<String>, Query(q): Query<HashMap<String, String>>, headers: HeaderMap) -> ApiResult {
+pub async fn download(
+    State(state): State<Arc<AppState>>,
+    Path(id): Path<String>,
+    Query(q): Query<HashMap<String, String>>,
+    headers: HeaderMap,
+) -> ApiResult {
     let id = parse_id(&id)?.to_owned();
     let (format, tag) = download_format(&q)?;
     let etag = format!("\"{id}.{tag}\"");
@@ -264,21 +349,36 @@ pub async fn download(State(state): State<Arc<AppState>>, Path(id): Path<String>
     let filename = format!("hadamard-{n}-{}.{}", &id[..12], format.extension());
     let mut resp = (StatusCode::OK, immutable_headers(&etag), Body::from(bytes)).into_response();
     let h = resp.headers_mut();
-    h.insert(header::CONTENT_TYPE, HeaderValue::from_static(format.media_type()));
+    h.insert(
+        header::CONTENT_TYPE,
+        HeaderValue::from_static(format.media_type()),
+    );
     if let Ok(v) = HeaderValue::from_str(&format!("attachment; filename=\"{filename}\"")) {
         h.insert(header::CONTENT_DISPOSITION, v);
     }
     if let WriteFormat::Bits { one_is_negative } = format {
-        h.insert("x-bits-minus", HeaderValue::from_static(if one_is_negative { "1" } else { "0" }));
+        h.insert(
+            "x-bits-minus",
+            HeaderValue::from_static(if one_is_negative { "1" } else { "0" }),
+        );
     }
     Ok(resp)
 }
 
 /// `GET /api/matrices/{id}/rows/{i}`: row i (from 0) as `+`/`-` text and as ±1 values. For
 /// spreading codes and replicate weights, where one row is all that is needed.
-pub async fn row(State(state): State<Arc<AppState>>, Path((id, i)): Path<(String, String)>, headers: HeaderMap) -> ApiResult {
+pub async fn row(
+    State(state): State<Arc<AppState>>,
+    Path((id, i)): Path<(String, String)>,
+    headers: HeaderMap,
+) -> ApiResult {
     let id = parse_id(&id)?.to_owned();
-    let i: usize = i.parse().map_err(|_| ApiError::bad_request(format!("the row must be a non-negative integer (rows count from 0), not `{}`", truncate(&i, 40))))?;
+    let i: usize = i.parse().map_err(|_| {
+        ApiError::bad_request(format!(
+            "the row must be a non-negative integer (rows count from 0), not `{}`",
+            truncate(&i, 40)
+        ))
+    })?;
     let etag = format!("\"{id}.row{i}\"");
     let key = id.clone();
     let v = heavy(&state, move |c| c.load(&key)).await??;
@@ -287,13 +387,19 @@ pub async fn row(State(state): State<Arc<AppState>>, Path((id, i)): Path<(String
     };
     let n = v.order();
     if i >= n {
-        return Err(ApiError::not_found(format!("matrix {id} has order {n}: its rows are 0 to {}", n - 1)).with("order", n));
+        return Err(ApiError::not_found(format!(
+            "matrix {id} has order {n}: its rows are 0 to {}",
+            n - 1
+        ))
+        .with("order", n));
     }
     if if_none_match(&headers, &etag) {
         return Ok(not_modified(&etag));
     }
     let m = v.matrix();
-    let pm: String = (0..n).map(|j| if m.is_negative(i, j) { '-' } else { '+' }).collect();
+    let pm: String = (0..n)
+        .map(|j| if m.is_negative(i, j) { '-' } else { '+' })
+        .collect();
     let values: Vec<i8> = (0..n).map(|j| m.get(i, j)).collect();
     let body = json!({"id": id, "order": n, "row": i, "index_base": 0, "pm": pm, "values": values});
     Ok((immutable_headers(&etag), Json(body)).into_response())

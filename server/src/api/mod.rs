@@ -45,10 +45,17 @@ pub async fn index() -> impl IntoResponse {
 /// `GET /api/health`: the server answers and its database can be read.
 pub async fn health(State(state): State<Arc<AppState>>) -> ApiResult {
     let (count, seeded_up_to, sequences) = blocking(&state, |c| {
-        c.store.read(|db| Ok((stored::count(db)?, seeded::seed_max_order(db)?, seeded::sequence_counts(db)?)))
+        c.store.read(|db| {
+            Ok((
+                stored::count(db)?,
+                seeded::seed_max_order(db)?,
+                seeded::sequence_counts(db)?,
+            ))
+        })
     })
     .await??;
-    let sequences: serde_json::Map<String, serde_json::Value> = sequences.into_iter().map(|(f, k)| (f, json!(k))).collect();
+    let sequences: serde_json::Map<String, serde_json::Value> =
+        sequences.into_iter().map(|(f, k)| (f, json!(k))).collect();
     Ok(Json(json!({
         "status": "ok",
         "matrices": count,

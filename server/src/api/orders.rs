@@ -25,10 +25,22 @@ pub const PAGE_MAX: u32 = 500;
 /// maximum, from the planner above it).
 pub async fn show(State(state): State<Arc<AppState>>, Path(n): Path<String>) -> ApiResult {
     let n = parse_positive("the order", &n, ORDER_QUERY_MAX)?;
-    let stored = if n <= SEED_MAX_ORDER { blocking(&state, move |c| c.store.read(|db| orders::order_info_json(db, n))).await?? } else { None };
+    let stored = if n <= SEED_MAX_ORDER {
+        blocking(&state, move |c| {
+            c.store.read(|db| orders::order_info_json(db, n))
+        })
+        .await??
+    } else {
+        None
+    };
     let text = match stored {
         Some(t) => t,
-        None => heavy(&state, move |_| serde_json::to_string(&route::order_info(n)).unwrap_or_default()).await?,
+        None => {
+            heavy(&state, move |_| {
+                serde_json::to_string(&route::order_info(n)).unwrap_or_default()
+            })
+            .await?
+        }
     };
     Ok(([(header::CONTENT_TYPE, "application/json")], text).into_response())
 }
@@ -36,7 +48,10 @@ pub async fn show(State(state): State<Arc<AppState>>, Path(n): Path<String>) -> 
 /// `GET /api/orders/{n}/matrix`: the catalogue's own matrix of order n, built, verified and
 /// stored on the first request. 200 with its id and url; 404 when no implemented route
 /// builds n (the body says the order's status); 422 when n is above `--max-order`.
-pub async fn catalogue_matrix(State(state): State<Arc<AppState>>, Path(n): Path<String>) -> ApiResult {
+pub async fn catalogue_matrix(
+    State(state): State<Arc<AppState>>,
+    Path(n): Path<String>,
+) -> ApiResult {
     let n = parse_positive("the order", &n, ORDER_QUERY_MAX)?;
     let body = catalogue_entry(&state, n).await?;
     Ok(Json(body).into_response())
@@ -46,7 +61,11 @@ pub async fn catalogue_matrix(State(state): State<Arc<AppState>>, Path(n): Path<
 pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> {
     let max = state.config.max_order as u64;
     if n > max {
-        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("order {n} is above this server's limit of {max} (--max-order)")).with("limit", max));
+        return Err(ApiError::new(
+            StatusCode::UNPROCESSABLE_ENTITY,
+            format!("order {n} is above this server's limit of {max} (--max-order)"),
+        )
+        .with("limit", max));
     }
     let n = n as usize;
     // One build per order at a time: later requests wait and then find it stored.
@@ -63,7 +82,11 @@ pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> 
             "built_now": e.created,
             "recipe": serde_json::from_str::<Value>(&e.recipe_json).unwrap_or(Value::Null),
         })),
-        Err(BuildFailure::NoRoute { message, status }) => Err(ApiError::not_found(format!("the catalogue has no matrix of order {n}: {message}")).with("order", n).with("status", status)),
+        Err(BuildFailure::NoRoute { message, status }) => Err(ApiError::not_found(format!(
+            "the catalogue has no matrix of order {n}: {message}"
+        ))
+        .with("order", n)
+        .with("status", status)),
         Err(BuildFailure::Store(e)) => Err(e.into()),
     }
 }
@@ -71,7 +94,11 @@ pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> 
 /// `GET /api/orders/{n}/matrices?limit=L&offset=K`: the stored matrices of order n, oldest
 /// first. When none is stored and n is constructible (within `--max-order`), the catalogue's
 /// matrix is built first, so the list is never empty for a constructible order.
-pub async fn list(State(state): State<Arc<AppState>>, Path(n): Path<String>, Query(q): Query<HashMap<String, String>>) -> ApiResult {
+pub async fn list(
+    State(state): State<Arc<AppState>>,
+    Path(n): Path<String>,
+    Query(q): Query<HashMap<String, String>>,
+) -> ApiResult {
     let n = parse_positive("the order", &n, ORDER_QUERY_MAX)?;
     let limit = match q.get("limit") {
         None => 100,
@@ -80,20 +107,33 @@ pub async fn list(State(state): State<Arc<AppState>>, Path(n): Path<String>, Que
     let offset = match q.get("offset").map(|s| s.parse::<u64>()) {
         None => 0,
         Some(Ok(k)) if k <= i64::MAX as u64 => k,
-        Some(_) => return Err(ApiError::bad_request("offset must be a non-negative integer")),
+        Some(_) => {
+            return Err(ApiError::bad_request(
+                "offset must be a non-negative integer",
+            ))
+        }
     };
     let order = usize::try_from(n).unwrap_or(usize::MAX);
-    let stored = blocking(&state, move |c| c.store.read(|db| matrices::count_of_order(db, order))).await??;
+    let stored = blocking(&state, move |c| {
+        c.store.read(|db| matrices::count_of_order(db, order))
+    })
+    .await??;
     let mut built = false;
     if stored == 0 && n <= state.config.max_order as u64 {
         let status = heavy(&state, move |_| route::order_info(n).status).await?;
         if status == route::Status::Constructible {
-            built = catalogue_entry(&state, n).await.is_ok_and(|v| v["built_now"] == json!(true));
+            built = catalogue_entry(&state, n)
+                .await
+                .is_ok_and(|v| v["built_now"] == json!(true));
         }
     }
     let (total, page, entry) = blocking(&state, move |c| {
         c.store.read(|db| {
-            Ok((matrices::count_of_order(db, order)?, matrices::list_of_order(db, order, limit, offset)?, matrices::catalogue_entry(db, order)?))
+            Ok((
+                matrices::count_of_order(db, order)?,
+                matrices::list_of_order(db, order, limit, offset)?,
+                matrices::catalogue_entry(db, order)?,
+            ))
         })
     })
     .await??;

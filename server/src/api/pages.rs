@@ -30,7 +30,8 @@ pub const INDEX_HTML: &str = r#"<!doctype html>
 "#;
 
 /// Starts the app.
-pub const BOOT_JS: &str = "import init from '/pkg/web.js';\ninit({ module_or_path: '/pkg/web_bg.wasm' });\n";
+pub const BOOT_JS: &str =
+    "import init from '/pkg/web.js';\ninit({ module_or_path: '/pkg/web_bg.wasm' });\n";
 
 /// `GET /` and the app's other paths.
 pub async fn index() -> Response {
@@ -38,7 +39,12 @@ pub async fn index() -> Response {
 }
 
 fn page(status: StatusCode) -> Response {
-    (status, [(header::CACHE_CONTROL, "no-cache")], Html(INDEX_HTML)).into_response()
+    (
+        status,
+        [(header::CACHE_CONTROL, "no-cache")],
+        Html(INDEX_HTML),
+    )
+        .into_response()
 }
 
 /// `GET /m/{id}`: a matrix's permanent page. The shell, with 404 when the id is not stored
@@ -48,22 +54,53 @@ pub async fn matrix_page(State(state): State<Arc<AppState>>, Path(id): Path<Stri
         return Ok(page(StatusCode::NOT_FOUND));
     }
     let found = blocking(&state, move |c| c.exists(&id)).await??;
-    Ok(page(if found { StatusCode::OK } else { StatusCode::NOT_FOUND }))
+    Ok(page(if found {
+        StatusCode::OK
+    } else {
+        StatusCode::NOT_FOUND
+    }))
 }
 
 /// `GET /pkg/boot.js`.
 pub async fn boot_js() -> Response {
-    ([(header::CONTENT_TYPE, "application/javascript; charset=utf-8"), (header::CACHE_CONTROL, "no-cache")], BOOT_JS).into_response()
+    (
+        [
+            (
+                header::CONTENT_TYPE,
+                "application/javascript; charset=utf-8",
+            ),
+            (header::CACHE_CONTROL, "no-cache"),
+        ],
+        BOOT_JS,
+    )
+        .into_response()
 }
 
 /// `GET /pkg/web.js`.
 pub async fn web_js() -> Response {
-    ([(header::CONTENT_TYPE, "application/javascript; charset=utf-8"), (header::CACHE_CONTROL, "no-cache")], WEB_JS).into_response()
+    (
+        [
+            (
+                header::CONTENT_TYPE,
+                "application/javascript; charset=utf-8",
+            ),
+            (header::CACHE_CONTROL, "no-cache"),
+        ],
+        WEB_JS,
+    )
+        .into_response()
 }
 
 /// `GET /pkg/web_bg.wasm`.
 pub async fn web_wasm() -> Response {
-    ([(header::CONTENT_TYPE, "application/wasm"), (header::CACHE_CONTROL, "no-cache")], WEB_WASM).into_response()
+    (
+        [
+            (header::CONTENT_TYPE, "application/wasm"),
+            (header::CACHE_CONTROL, "no-cache"),
+        ],
+        WEB_WASM,
+    )
+        .into_response()
 }
 
 /// Any other path: a JSON 404 under `/api/` and `/pkg/`, the app's shell elsewhere (the app
@@ -71,10 +108,21 @@ pub async fn web_wasm() -> Response {
 pub async fn fallback(method: Method, uri: Uri) -> Response {
     let path = uri.path();
     if method != Method::GET && method != Method::HEAD {
-        return ApiError::new(StatusCode::METHOD_NOT_ALLOWED, format!("{method} is not accepted on {}", super::helpers::truncate(path, 100))).into_response();
+        return ApiError::new(
+            StatusCode::METHOD_NOT_ALLOWED,
+            format!(
+                "{method} is not accepted on {}",
+                super::helpers::truncate(path, 100)
+            ),
+        )
+        .into_response();
     }
     if path == "/api" || path.starts_with("/api/") || path.starts_with("/pkg/") {
-        return ApiError::not_found(format!("no such endpoint: {}; see /api for the list", super::helpers::truncate(path, 100))).into_response();
+        return ApiError::not_found(format!(
+            "no such endpoint: {}; see /api for the list",
+            super::helpers::truncate(path, 100)
+        ))
+        .into_response();
     }
     page(StatusCode::OK)
 }

@@ -42,7 +42,11 @@ mod tests {
 
     fn total(profile: &str) -> u64 {
         let v: serde_json::Value = serde_json::from_str(profile).expect("profile is JSON");
-        v.as_object().expect("an object").values().map(|c| c.as_u64().expect("a count")).sum()
+        v.as_object()
+            .expect("an object")
+            .values()
+            .map(|c| c.as_u64().expect("a count"))
+            .sum()
     }
 
     #[test]

@@ -60,7 +60,10 @@ pub struct Catalogue {
 
 impl Catalogue {
     pub fn new(store: Store, cache_bytes: usize) -> Catalogue {
-        Catalogue { store, cache: Mutex::new(Cache::new(cache_bytes)) }
+        Catalogue {
+            store,
+            cache: Mutex::new(Cache::new(cache_bytes)),
+        }
     }
 
     /// Stores a verified matrix unless it is already stored, and compares its invariant with
@@ -68,14 +71,20 @@ impl Catalogue {
     pub fn ingest(&self, v: &Verified, provenance: Provenance) -> Result<Ingested, StoreError> {
         if let Some(record) = self.store.read(|c| matrices::get(c, v.id()))? {
             let equivalence = self.equivalence(&record)?;
-            return Ok(Ingested { record, created: false, equivalence });
+            return Ok(Ingested {
+                record,
+                created: false,
+                equivalence,
+            });
         }
         let m = v.matrix();
         let now = now_rfc3339();
         let properties = verify::properties(m);
         let profile = invariant::profile4(m);
         let (origin, recipe_json, received_format) = match provenance {
-            Provenance::Constructed { recipe_json } => (Origin::Constructed, Some(recipe_json), None),
+            Provenance::Constructed { recipe_json } => {
+                (Origin::Constructed, Some(recipe_json), None)
+            }
             Provenance::Uploaded { format } => (Origin::Uploaded, None, Some(format)),
         };
         let fresh = MatrixRecord {
@@ -97,23 +106,40 @@ impl Catalogue {
         let (created, record) = self.store.write(|c| {
             let tx = c.transaction()?;
             let created = matrices::insert(&tx, &fresh, &bits)?;
-            let record = matrices::get(&tx, &fresh.id)?.ok_or_else(|| StoreError::Corrupt(format!("{} vanished after insert", fresh.id)))?;
+            let record = matrices::get(&tx, &fresh.id)?.ok_or_else(|| {
+                StoreError::Corrupt(format!("{} vanished after insert", fresh.id))
+            })?;
             tx.commit()?;
             Ok((created, record))
         })?;
         let equivalence = self.equivalence(&record)?;
         self.cache_put(Arc::new(v.clone()));
-        Ok(Ingested { record, created, equivalence })
+        Ok(Ingested {
+            record,
+            created,
+            equivalence,
+        })
     }
 
     fn equivalence(&self, r: &MatrixRecord) -> Result<Equivalence, StoreError> {
         let (Some(kind), Some(inv)) = (r.invariant_kind.as_deref(), r.invariant.as_deref()) else {
-            return Ok(Equivalence { kind: None, possibly_equivalent_to: Vec::new(), matches: 0, compared_with: 0 });
+            return Ok(Equivalence {
+                kind: None,
+                possibly_equivalent_to: Vec::new(),
+                matches: 0,
+                compared_with: 0,
+            });
         };
         self.store.read(|c| {
-            let (ids, matches) = matrices::same_invariant(c, r.order, kind, inv, &r.id, MATCH_LIST)?;
+            let (ids, matches) =
+                matrices::same_invariant(c, r.order, kind, inv, &r.id, MATCH_LIST)?;
             let compared_with = matrices::count_with_invariant(c, r.order, kind, &r.id)?;
-            Ok(Equivalence { kind: Some(invariant::PROFILE_KIND), possibly_equivalent_to: ids, matches, compared_with })
+            Ok(Equivalence {
+                kind: Some(invariant::PROFILE_KIND),
+                possibly_equivalent_to: ids,
+                matches,
+                compared_with,
+            })
         })
     }
 
@@ -121,12 +147,22 @@ impl Catalogue {
     pub fn upload(&self, bytes: &[u8], opts: &ReadOptions) -> Result<UploadOutcome, UploadError> {
         let parsed = formats::read(bytes, opts).map_err(UploadError::Malformed)?;
         if !parsed.erasures.is_empty() {
-            return Ok(UploadOutcome::HasErasures { order: parsed.matrix.rows(), erased: parsed.erasures.len() });
+            return Ok(UploadOutcome::HasErasures {
+                order: parsed.matrix.rows(),
+                erased: parsed.erasures.len(),
+            });
         }
         match verify::certify(parsed.matrix) {
             Err(report) => Ok(UploadOutcome::NotHadamard(report)),
             Ok(v) => {
-                let ingested = self.ingest(&v, Provenance::Uploaded { format: parsed.format.name().to_owned() }).map_err(UploadError::Store)?;
+                let ingested = self
+                    .ingest(
+                        &v,
+                        Provenance::Uploaded {
+                            format: parsed.format.name().to_owned(),
+                        },
+                    )
+                    .map_err(UploadError::Store)?;
                 Ok(UploadOutcome::Stored(Box::new(ingested)))
             }
         }
@@ -135,26 +171,46 @@ impl Catalogue {
     /// The catalogue's own matrix of order n, built, verified and stored on first request.
     pub fn catalogue_matrix(&self, n: usize) -> Result<CatalogueMatrix, BuildFailure> {
         if let Some((id, recipe_json, _)) = self.store.read(|c| matrices::catalogue_entry(c, n))? {
-            return Ok(CatalogueMatrix { id, recipe_json, created: false });
+            return Ok(CatalogueMatrix {
+                id,
+                recipe_json,
+                created: false,
+            });
         }
         let info = route::order_info(n as u64);
         let Some(best) = info.routes.iter().find(|r| r.buildable) else {
-            return Err(BuildFailure::NoRoute { message: info.note.clone(), status: seed::status_name(info.status) });
+            return Err(BuildFailure::NoRoute {
+                message: info.note.clone(),
+                status: seed::status_name(info.status),
+            });
         };
-        let built = route::build(best).map_err(|e| BuildFailure::NoRoute { message: e.to_string(), status: seed::status_name(info.status) })?;
+        let built = route::build(best).map_err(|e| BuildFailure::NoRoute {
+            message: e.to_string(),
+            status: seed::status_name(info.status),
+        })?;
         // The recipe replays with `route::build_recipe`, which checks it gives this very id.
         let mut recipe = route::recipe_for(best);
         recipe.id = Some(built.id().to_owned());
         let recipe_json = serde_json::to_string(&recipe).unwrap_or_default();
-        let ingested = self.ingest(&built, Provenance::Constructed { recipe_json: recipe_json.clone() })?;
+        let ingested = self.ingest(
+            &built,
+            Provenance::Constructed {
+                recipe_json: recipe_json.clone(),
+            },
+        )?;
         let built_at = now_rfc3339();
-        self.store.write(|c| matrices::set_catalogue_entry(c, n, built.id(), &recipe_json, &built_at))?;
+        self.store
+            .write(|c| matrices::set_catalogue_entry(c, n, built.id(), &recipe_json, &built_at))?;
         // Another request may have recorded a different build first; that one stands.
         let (id, recipe_json, _) = self
             .store
             .read(|c| matrices::catalogue_entry(c, n))?
             .ok_or_else(|| StoreError::Corrupt(format!("catalogue entry {n} vanished")))?;
-        Ok(CatalogueMatrix { created: ingested.created && id == built.id(), id, recipe_json })
+        Ok(CatalogueMatrix {
+            created: ingested.created && id == built.id(),
+            id,
+            recipe_json,
+        })
     }
 
     /// The stored matrix `id`, re-verified, or `None` when it is not stored.
@@ -190,13 +246,26 @@ impl Catalogue {
 
 /// Decodes a stored blob and runs the exact check on it; the id must match too.
 pub fn certify_stored(id: &str, n: usize, blob: &[u8]) -> Result<Verified, String> {
-    let m: Matrix = matrices::decode(n, blob).ok_or_else(|| format!("the blob of {id} ({} bytes) does not fit order {n}", blob.len()))?;
+    let m: Matrix = matrices::decode(n, blob).ok_or_else(|| {
+        format!(
+            "the blob of {id} ({} bytes) does not fit order {n}",
+            blob.len()
+        )
+    })?;
     if matrices::encode(&m) != blob {
         return Err(format!("the blob of {id} has padding bits set"));
     }
-    let v = verify::certify(m).map_err(|r| format!("{id} fails the exact check: {} failing row pairs", r.failing_pairs_total))?;
+    let v = verify::certify(m).map_err(|r| {
+        format!(
+            "{id} fails the exact check: {} failing row pairs",
+            r.failing_pairs_total
+        )
+    })?;
     if v.id() != id {
-        return Err(format!("{id} is stored under the wrong id: its content has id {}", v.id()));
+        return Err(format!(
+            "{id} is stored under the wrong id: its content has id {}",
+            v.id()
+        ));
     }
     Ok(v)
 }
@@ -257,7 +326,12 @@ struct Cache {
 
 impl Cache {
     fn new(budget: usize) -> Cache {
-        Cache { budget, used: 0, map: HashMap::new(), order: VecDeque::new() }
+        Cache {
+            budget,
+            used: 0,
+            map: HashMap::new(),
+            order: VecDeque::new(),
+        }
     }
 
     fn get(&self, id: &str) -> Option<Arc<Verified>> {
@@ -270,7 +344,9 @@ impl Cache {
             return;
         }
         while self.used + size > self.budget {
-            let Some(old) = self.order.pop_front() else { break };
+            let Some(old) = self.order.pop_front() else {
+                break;
+            };
             if let Some(o) = self.map.remove(&old) {
                 self.used -= o.matrix().words().len() * 8;
             }

@@ -43,12 +43,18 @@ pub fn ensure_seeded(store: &Store) -> Result<Seeded, StoreError> {
         return Ok(Seeded::AlreadyCurrent);
     }
     store.write(|c| orders::replace_seed(c, &orders, &sequences, SEED_MAX_ORDER, &fingerprint))?;
-    Ok(Seeded::Written { orders: orders.len(), sequences: sequences.len() })
+    Ok(Seeded::Written {
+        orders: orders.len(),
+        sequences: sequences.len(),
+    })
 }
 
 /// The status name of an order as the API spells it.
 pub fn status_name(s: route::Status) -> String {
-    serde_json::to_value(s).ok().and_then(|v| v.as_str().map(str::to_owned)).unwrap_or_default()
+    serde_json::to_value(s)
+        .ok()
+        .and_then(|v| v.as_str().map(str::to_owned))
+        .unwrap_or_default()
 }
 
 fn order_rows() -> Vec<OrderRow> {
@@ -57,7 +63,11 @@ fn order_rows() -> Vec<OrderRow> {
         .into_iter()
         .map(|(n, status)| {
             let info = planner.order_info(n);
-            OrderRow { n, status: status_name(status), info_json: serde_json::to_string(&info).unwrap_or_default() }
+            OrderRow {
+                n,
+                status: status_name(status),
+                info_json: serde_json::to_string(&info).unwrap_or_default(),
+            }
         })
         .collect()
 }
@@ -70,11 +80,18 @@ fn sequence_rows() -> Vec<SequenceRow> {
     push(&mut rows, "base", &cat.base, |d| d.a.len());
     push(&mut rows, "turyn_type", &cat.turyn_type, |d| d.n());
     push(&mut rows, "t_sequences", &cat.t_sequences, |d| d.len());
-    push(&mut rows, "goethals_seidel", &cat.goethals_seidel, |d| d.v());
+    push(&mut rows, "goethals_seidel", &cat.goethals_seidel, |d| {
+        d.v()
+    });
     rows
 }
 
-fn push<T: Serialize>(rows: &mut Vec<SequenceRow>, family: &str, entries: &[seed::Entry<T>], length: impl Fn(&T) -> usize) {
+fn push<T: Serialize>(
+    rows: &mut Vec<SequenceRow>,
+    family: &str,
+    entries: &[seed::Entry<T>],
+    length: impl Fn(&T) -> usize,
+) {
     for e in entries {
         rows.push(SequenceRow {
             family: family.to_owned(),

@@ -15,7 +15,12 @@ pub struct AdviseArgs {
     #[arg(long)]
     json: bool,
     /// The dimension to factor.
-    #[arg(long, value_name = "D", required_unless_present = "at_least", conflicts_with = "at_least")]
+    #[arg(
+        long,
+        value_name = "D",
+        required_unless_present = "at_least",
+        conflicts_with = "at_least"
+    )]
     dimension: Option<u64>,
     /// The smallest known order at least this.
     #[arg(long, value_name = "K")]
@@ -30,10 +35,20 @@ pub fn run(args: AdviseArgs) -> ExitCode {
         } else {
             println!("dimension {d}: {}", a.note);
             for f in &a.options {
-                println!("  {:<16} order {} is {}", f.factored, f.dense, status_name(&f.status));
+                println!(
+                    "  {:<16} order {} is {}",
+                    f.factored,
+                    f.dense,
+                    status_name(&f.status)
+                );
             }
             for f in &a.blocked {
-                println!("  {:<16} (only through order {}, which is {})", f.factored, f.dense, status_name(&f.status));
+                println!(
+                    "  {:<16} (only through order {}, which is {})",
+                    f.factored,
+                    f.dense,
+                    status_name(&f.status)
+                );
             }
         }
         return ExitCode::SUCCESS;
@@ -42,11 +57,18 @@ pub fn run(args: AdviseArgs) -> ExitCode {
     let known = route::smallest_known_at_least(k);
     let built = route::smallest_constructible_at_least(k);
     if args.json {
-        let short = |o: &Option<OrderInfo>| o.as_ref().map(|i| json!({"order": i.order, "status": i.status}));
+        let short = |o: &Option<OrderInfo>| {
+            o.as_ref()
+                .map(|i| json!({"order": i.order, "status": i.status}))
+        };
         println!("{}", serde_json::to_string_pretty(&json!({"at_least": k, "smallest_known": short(&known), "smallest_constructible": short(&built)})).unwrap_or_default());
     } else {
         match &known {
-            Some(i) => println!("smallest known order ≥ {k}: {} ({})", i.order, status_name(&i.status)),
+            Some(i) => println!(
+                "smallest known order ≥ {k}: {} ({})",
+                i.order,
+                status_name(&i.status)
+            ),
             None => println!("no known order ≥ {k} within the planner's reach"),
         }
         if let Some(b) = &built {
@@ -59,5 +81,8 @@ pub fn run(args: AdviseArgs) -> ExitCode {
 }
 
 fn status_name<T: serde::Serialize>(s: &T) -> String {
-    serde_json::to_value(s).ok().and_then(|v| v.as_str().map(str::to_string)).unwrap_or_default()
+    serde_json::to_value(s)
+        .ok()
+        .and_then(|v| v.as_str().map(str::to_string))
+        .unwrap_or_default()
 }

@@ -70,7 +70,12 @@ pub fn run(args: AuditArgs) -> ExitCode {
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         for f in &failures {
-            println!("FAILED {} (order {}): {}", f["id"].as_str().unwrap_or(""), f["order"], f["problem"].as_str().unwrap_or(""));
+            println!(
+                "FAILED {} (order {}): {}",
+                f["id"].as_str().unwrap_or(""),
+                f["order"],
+                f["problem"].as_str().unwrap_or("")
+            );
         }
         if !sqlite_ok {
             println!("SQLite integrity_check: {}", integrity.join("; "));

@@ -53,7 +53,8 @@ pub fn run(args: BuildArgs) -> ExitCode {
                 Ok(r) => r,
                 Err(code) => return code,
             };
-            let spinner = Spinner::start(&format!("building order {n} by {}", method_label(&route)));
+            let spinner =
+                Spinner::start(&format!("building order {n} by {}", method_label(&route)));
             let built = route::build(&route);
             spinner.finish();
             (route::recipe_for(&route), built)
@@ -75,14 +76,20 @@ pub fn run(args: BuildArgs) -> ExitCode {
 }
 
 fn method_label(r: &Route) -> String {
-    serde_json::to_value(r.method).ok().and_then(|v| v.as_str().map(str::to_string)).unwrap_or_default()
+    serde_json::to_value(r.method)
+        .ok()
+        .and_then(|v| v.as_str().map(str::to_string))
+        .unwrap_or_default()
 }
 
 fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
     let info = route::order_info(n);
     let buildable: Vec<&Route> = info.routes.iter().filter(|r| r.buildable).collect();
     if buildable.is_empty() {
-        let mut msg = format!("no implemented route for order {n}: {}", status_words(info.status));
+        let mut msg = format!(
+            "no implemented route for order {n}: {}",
+            status_words(info.status)
+        );
         if !info.note.is_empty() {
             msg += &format!("\n  {}", info.note);
         }
@@ -90,7 +97,11 @@ fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
             msg += &format!("\n  literature: {l}");
         }
         for r in info.routes.iter().take(3) {
-            msg += &format!("\n  known route: {} — {}", method_label(r), r.tree.reference);
+            msg += &format!(
+                "\n  known route: {} — {}",
+                method_label(r),
+                r.tree.reference
+            );
         }
         return Err(fail(3, &msg));
     }
@@ -102,16 +113,27 @@ fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
                     fail(2, &format!("route {c} of order {n} is not a buildable route; see `hadamard routes {n}`"))
                 });
             }
-            buildable.iter().find(|r| method_label(r) == c).map(|r| (*r).clone()).ok_or_else(|| {
-                fail(2, &format!("no buildable `{c}` route for order {n}; see `hadamard routes {n}`"))
-            })
+            buildable
+                .iter()
+                .find(|r| method_label(r) == c)
+                .map(|r| (*r).clone())
+                .ok_or_else(|| {
+                    fail(
+                        2,
+                        &format!(
+                            "no buildable `{c}` route for order {n}; see `hadamard routes {n}`"
+                        ),
+                    )
+                })
         }
     }
 }
 
 fn replay(path: &str) -> Result<(Recipe, Result<Verified, BuildError>), ExitCode> {
-    let text = std::fs::read_to_string(path).map_err(|e| fail(2, &format!("cannot read {path}: {e}")))?;
-    let recipe: Recipe = serde_json::from_str(&text).map_err(|e| fail(2, &format!("{path}: not a recipe: {e}")))?;
+    let text =
+        std::fs::read_to_string(path).map_err(|e| fail(2, &format!("cannot read {path}: {e}")))?;
+    let recipe: Recipe =
+        serde_json::from_str(&text).map_err(|e| fail(2, &format!("{path}: not a recipe: {e}")))?;
     let spinner = Spinner::start(&format!("replaying the recipe for order {}", recipe.order));
     let built = route::build_recipe(&recipe);
     spinner.finish();
@@ -120,23 +142,35 @@ fn replay(path: &str) -> Result<(Recipe, Result<Verified, BuildError>), ExitCode
 
 fn build_failed(e: BuildError) -> ExitCode {
     match e {
-        BuildError::NoRoute { .. } | BuildError::NotBuildable { .. } | BuildError::TooLarge { .. } => fail(3, &e.to_string()),
+        BuildError::NoRoute { .. }
+        | BuildError::NotBuildable { .. }
+        | BuildError::TooLarge { .. } => fail(3, &e.to_string()),
         other => fail(2, &other.to_string()),
     }
 }
 
-fn write(v: &Verified, format: &hadamard_core::formats::WriteFormat, path: Option<&str>) -> ExitCode {
+fn write(
+    v: &Verified,
+    format: &hadamard_core::formats::WriteFormat,
+    path: Option<&str>,
+) -> ExitCode {
     let mut out = match open_output(path) {
         Ok(o) => o,
         Err(e) => return fail(2, &format!("cannot open the output: {e}")),
     };
-    if let Err(e) = hadamard_core::formats::write_to(v.matrix(), format, &mut out).and_then(|_| out.flush()) {
+    if let Err(e) =
+        hadamard_core::formats::write_to(v.matrix(), format, &mut out).and_then(|_| out.flush())
+    {
         if e.kind() != std::io::ErrorKind::BrokenPipe {
             return fail(2, &format!("cannot write: {e}"));
         }
     }
     if path.is_some() {
-        eprintln!("wrote a Hadamard matrix of order {} (verified), id {}", v.order(), v.id());
+        eprintln!(
+            "wrote a Hadamard matrix of order {} (verified), id {}",
+            v.order(),
+            v.id()
+        );
     }
     ExitCode::SUCCESS
 }

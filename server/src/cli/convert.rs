@@ -43,7 +43,11 @@ pub fn run(args: ConvertArgs) -> ExitCode {
             return ExitCode::from(2);
         }
     };
-    let m = if args.normalize { parsed.matrix.normalized() } else { parsed.matrix };
+    let m = if args.normalize {
+        parsed.matrix.normalized()
+    } else {
+        parsed.matrix
+    };
     let report = verify::verify(&m);
     let mut out = match open_output(args.output.as_deref()) {
         Ok(o) => o,
@@ -52,14 +56,22 @@ pub fn run(args: ConvertArgs) -> ExitCode {
             return ExitCode::from(2);
         }
     };
-    if let Err(e) = hadamard_core::formats::write_to(&m, &format, &mut out).and_then(|_| out.flush()) {
+    if let Err(e) =
+        hadamard_core::formats::write_to(&m, &format, &mut out).and_then(|_| out.flush())
+    {
         eprintln!("hadamard: cannot write: {e}");
         return ExitCode::from(2);
     }
     if report.hadamard {
-        eprintln!("wrote a Hadamard matrix of order {} (verified), id {}", report.order, report.sha256);
+        eprintln!(
+            "wrote a Hadamard matrix of order {} (verified), id {}",
+            report.order, report.sha256
+        );
     } else {
-        eprintln!("wrote a ±1 matrix that is NOT Hadamard ({} failing row pairs), id {}", report.failing_pairs_total, report.sha256);
+        eprintln!(
+            "wrote a ±1 matrix that is NOT Hadamard ({} failing row pairs), id {}",
+            report.failing_pairs_total, report.sha256
+        );
     }
     ExitCode::SUCCESS
 }

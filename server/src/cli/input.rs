@@ -41,7 +41,9 @@ impl InputError {
         };
         if as_json {
             let v = match self {
-                InputError::Parse(p) => json!({"error": message, "kind": "malformed", "location": p.location}),
+                InputError::Parse(p) => {
+                    json!({"error": message, "kind": "malformed", "location": p.location})
+                }
                 InputError::Io(_) => json!({"error": message, "kind": "unreadable"}),
                 InputError::Usage(_) => json!({"error": message, "kind": "usage"}),
             };
@@ -56,10 +58,19 @@ impl InputError {
 pub fn read_input(args: &InputArgs) -> Result<Parsed, InputError> {
     let format = match &args.format {
         None => None,
-        Some(f) => Some(f.parse::<Format>().map_err(|_| InputError::Usage(format!("unknown format `{f}`: use pm, int, csv, bits, json or npy")))?),
+        Some(f) => Some(f.parse::<Format>().map_err(|_| {
+            InputError::Usage(format!(
+                "unknown format `{f}`: use pm, int, csv, bits, json or npy"
+            ))
+        })?),
     };
     let bytes = read_bytes(&args.path, DEFAULT_MAX_BYTES)?;
-    let opts = ReadOptions { format, max_order: args.max_order, bits_one_is_negative: args.bits_minus == "1", ..ReadOptions::default() };
+    let opts = ReadOptions {
+        format,
+        max_order: args.max_order,
+        bits_one_is_negative: args.bits_minus == "1",
+        ..ReadOptions::default()
+    };
     formats::read(&bytes, &opts).map_err(InputError::Parse)
 }
 
@@ -67,7 +78,10 @@ pub fn read_input(args: &InputArgs) -> Result<Parsed, InputError> {
 pub fn read_bytes(path: &str, limit: u64) -> Result<Vec<u8>, InputError> {
     let mut buf = Vec::new();
     let res = if path == "-" {
-        std::io::stdin().lock().take(limit + 1).read_to_end(&mut buf)
+        std::io::stdin()
+            .lock()
+            .take(limit + 1)
+            .read_to_end(&mut buf)
     } else {
         match std::fs::File::open(path) {
             Ok(f) => f.take(limit + 1).read_to_end(&mut buf),
@@ -76,7 +90,9 @@ pub fn read_bytes(path: &str, limit: u64) -> Result<Vec<u8>, InputError> {
     };
     res.map_err(|e| InputError::Io(format!("cannot read {path}: {e}")))?;
     if buf.len() as u64 > limit {
-        return Err(InputError::Io(format!("{path} is larger than the {limit}-byte input limit")));
+        return Err(InputError::Io(format!(
+            "{path} is larger than the {limit}-byte input limit"
+        )));
     }
     Ok(buf)
 }

@@ -11,6 +11,6 @@ pub mod input;
 pub mod output;
 pub mod progress;
 pub mod routes;
-pub mod serve;
 pub mod search;
+pub mod serve;
 pub mod verify;

@@ -18,7 +18,10 @@ pub struct RoutesArgs {
 pub fn run(args: RoutesArgs) -> ExitCode {
     let info = route::order_info(args.order);
     if args.json {
-        println!("{}", serde_json::to_string_pretty(&info).unwrap_or_default());
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&info).unwrap_or_default()
+        );
     } else {
         print_info(&info, if args.all { usize::MAX } else { 5 });
     }
@@ -49,9 +52,18 @@ fn print_info(info: &OrderInfo, limit: usize) {
     }
     println!("  routes, best first (buildable, then smallest dense factor, then cheapest):");
     for (k, r) in info.routes.iter().take(limit).enumerate() {
-        let mark = if r.buildable { "buildable" } else { "not buildable here" };
+        let mark = if r.buildable {
+            "buildable"
+        } else {
+            "not buildable here"
+        };
         let skew = if r.skew { ", skew" } else { "" };
-        println!("  {:>2}. {} [{mark}{skew}], largest dense factor {}", k + 1, method_name(&r.tree), r.largest_dense_factor);
+        println!(
+            "  {:>2}. {} [{mark}{skew}], largest dense factor {}",
+            k + 1,
+            method_name(&r.tree),
+            r.largest_dense_factor
+        );
         print_step(&r.tree, 6);
     }
     if info.routes.len() > limit {
@@ -60,19 +72,43 @@ fn print_info(info: &OrderInfo, limit: usize) {
 }
 
 fn method_name(s: &Step) -> String {
-    serde_json::to_value(s.method).ok().and_then(|v| v.as_str().map(str::to_string)).unwrap_or_default()
+    serde_json::to_value(s.method)
+        .ok()
+        .and_then(|v| v.as_str().map(str::to_string))
+        .unwrap_or_default()
 }
 
 fn print_step(s: &Step, indent: usize) {
     let params: Vec<String> = s
         .params
         .iter()
-        .filter(|(k, _)| !matches!(k.as_str(), "a" | "b" | "c" | "d" | "t1" | "t2" | "t3" | "t4" | "provenance" | "source"))
-        .map(|(k, v)| format!("{k}={}", v.as_str().map(str::to_string).unwrap_or_else(|| v.to_string())))
+        .filter(|(k, _)| {
+            !matches!(
+                k.as_str(),
+                "a" | "b" | "c" | "d" | "t1" | "t2" | "t3" | "t4" | "provenance" | "source"
+            )
+        })
+        .map(|(k, v)| {
+            format!(
+                "{k}={}",
+                v.as_str()
+                    .map(str::to_string)
+                    .unwrap_or_else(|| v.to_string())
+            )
+        })
         .collect();
-    let params = if params.is_empty() { String::new() } else { format!(" ({})", params.join(", ")) };
+    let params = if params.is_empty() {
+        String::new()
+    } else {
+        format!(" ({})", params.join(", "))
+    };
     let mark = if s.buildable { "" } else { " ✗" };
-    println!("{:indent$}{} → {}{params}{mark}", "", method_name(s), s.order);
+    println!(
+        "{:indent$}{} → {}{params}{mark}",
+        "",
+        method_name(s),
+        s.order
+    );
     if !s.reference.is_empty() {
         println!("{:indent$}  {}", "", s.reference);
     }

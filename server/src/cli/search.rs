@@ -216,9 +216,13 @@ pub fn run(args: SearchArgs) -> ExitCode {
                 None if (1..=40).contains(&v) => goethals_seidel::GsSearch::new(v),
                 None => {
                     eprintln!("error: --v {v} is too long to search every sequence (at most 40); choose --multiplier G, one of:");
-                    let choices = goethals_seidel::multiplier_choices(v, goethals_seidel::MAX_ORBITS);
+                    let choices =
+                        goethals_seidel::multiplier_choices(v, goethals_seidel::MAX_ORBITS);
                     if choices.is_empty() {
-                        eprintln!("  (none: every group of multipliers mod {v} has more than {} orbits)", goethals_seidel::MAX_ORBITS);
+                        eprintln!(
+                            "  (none: every group of multipliers mod {v} has more than {} orbits)",
+                            goethals_seidel::MAX_ORBITS
+                        );
                     }
                     for (g, size, orbits) in choices {
                         eprintln!("  --multiplier {g:<5} a group of {size} multipliers, {orbits} orbits (2^{orbits} sequences)");
@@ -575,7 +579,10 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
 /// Prints result lines: one seed-catalogue line each, or `{"results": [...]}` with `--json`.
 fn print_results(lines: &[String], json: bool) {
     if json {
-        println!("{}", serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default());
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&json!({ "results": lines })).unwrap_or_default()
+        );
     } else {
         for l in lines {
             println!("{l}");

@@ -47,7 +47,9 @@ pub struct ServeArgs {
 
 pub fn run(args: ServeArgs) -> ExitCode {
     init_logging(args.log_json);
-    let cores = std::thread::available_parallelism().map(|n| n.get()).unwrap_or(2);
+    let cores = std::thread::available_parallelism()
+        .map(|n| n.get())
+        .unwrap_or(2);
     let config = Config {
         addr: args.addr,
         db: args.db,
@@ -58,7 +60,10 @@ pub fn run(args: ServeArgs) -> ExitCode {
         readers: args.readers.max(1),
         cache_bytes: args.cache_mib << 20,
     };
-    let rt = match tokio::runtime::Builder::new_multi_thread().enable_all().build() {
+    let rt = match tokio::runtime::Builder::new_multi_thread()
+        .enable_all()
+        .build()
+    {
         Ok(rt) => rt,
         Err(e) => {
             eprintln!("hadamard: cannot start the runtime: {e}");

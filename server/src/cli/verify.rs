@@ -35,8 +35,16 @@ pub fn run(args: VerifyArgs) -> ExitCode {
     let erased = !parsed.erasures.is_empty();
     let hadamard = report.hadamard && !erased;
 
-    let completion = erased.then(|| repair::complete(&parsed.matrix, &parsed.erasures, repair::CompletionLimits::default()));
-    let fix = (!hadamard && !erased).then(|| repair::single_wrong_entry(&parsed.matrix, &report)).flatten();
+    let completion = erased.then(|| {
+        repair::complete(
+            &parsed.matrix,
+            &parsed.erasures,
+            repair::CompletionLimits::default(),
+        )
+    });
+    let fix = (!hadamard && !erased)
+        .then(|| repair::single_wrong_entry(&parsed.matrix, &report))
+        .flatten();
 
     if args.json {
         let mut v = serde_json::to_value(&report).unwrap_or(Value::Null);
@@ -46,12 +54,25 @@ pub fn run(args: VerifyArgs) -> ExitCode {
             o.insert("failing_pairs_index_base".into(), json!(0));
             o.insert("elapsed_ms".into(), json!(elapsed.as_secs_f64() * 1e3));
             o.insert("erased_entries".into(), json!(parsed.erasures.len()));
-            o.insert("repair".into(), fix.as_ref().map_or(Value::Null, repair_json));
-            o.insert("completion".into(), completion.as_ref().map_or(Value::Null, completion_json));
+            o.insert(
+                "repair".into(),
+                fix.as_ref().map_or(Value::Null, repair_json),
+            );
+            o.insert(
+                "completion".into(),
+                completion.as_ref().map_or(Value::Null, completion_json),
+            );
         }
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
-        print_human(&report, hadamard, parsed.format.name(), elapsed.as_secs_f64(), fix.as_ref(), completion.as_ref());
+        print_human(
+            &report,
+            hadamard,
+            parsed.format.name(),
+            elapsed.as_secs_f64(),
+            fix.as_ref(),
+            completion.as_ref(),
+        );
     }
     if hadamard {
         ExitCode::SUCCESS
@@ -74,15 +95,31 @@ fn completion_json(c: &Completion) -> Value {
     match c {
         Completion::Unique { id, .. } => json!({"kind": "unique", "completed_sha256": id}),
         Completion::None => json!({"kind": "none"}),
-        Completion::Several { count, complete } => json!({"kind": "several", "count": count, "count_is_exact": complete}),
+        Completion::Several { count, complete } => {
+            json!({"kind": "several", "count": count, "count_is_exact": complete})
+        }
         Completion::GaveUp { explored } => json!({"kind": "undecided", "explored_nodes": explored}),
     }
 }
 
-fn print_human(r: &Report, hadamard: bool, format: &str, secs: f64, fix: Option<&Repair>, completion: Option<&Completion>) {
-    let shape = if r.order == r.cols { format!("order {}", r.order) } else { format!("{}×{}", r.order, r.cols) };
+fn print_human(
+    r: &Report,
+    hadamard: bool,
+    format: &str,
+    secs: f64,
+    fix: Option<&Repair>,
+    completion: Option<&Completion>,
+) {
+    let shape = if r.order == r.cols {
+        format!("order {}", r.order)
+    } else {
+        format!("{}×{}", r.order, r.cols)
+    };
     if hadamard {
-        println!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).", r.order);
+        println!(
+            "Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).",
+            r.order
+        );
     } else {
         println!("not Hadamard: {shape}.");
         for f in &r.failures {
@@ -115,22 +152,52 @@ fn print_human(r: &Report, hadamard: bool, format: &str, secs: f64, fix: Option<
     }
     if let Some(c) = completion {
         match c {
-            Completion::Unique { id, .. } => println!("  the erased entries (?) are fixed by orthogonality: one completion, id {id}"),
-            Completion::None => println!("  no way of filling the erased entries (?) gives a Hadamard matrix"),
-            Completion::Several { count, complete: true } => println!("  the erased entries (?) admit {count} completions"),
-            Completion::Several { count, complete: false } => println!("  the erased entries (?) admit at least {count} completions"),
-            Completion::GaveUp { .. } => println!("  the erased entries (?) could not be settled within the search limit"),
+            Completion::Unique { id, .. } => println!(
+                "  the erased entries (?) are fixed by orthogonality: one completion, id {id}"
+            ),
+            Completion::None => {
+                println!("  no way of filling the erased entries (?) gives a Hadamard matrix")
+            }
+            Completion::Several {
+                count,
+                complete: true,
+            } => println!("  the erased entries (?) admit {count} completions"),
+            Completion::Several {
+                count,
+                complete: false,
+            } => println!("  the erased entries (?) admit at least {count} completions"),
+            Completion::GaveUp { .. } => {
+                println!("  the erased entries (?) could not be settled within the search limit")
+            }
         }
     }
     let p = &r.properties;
     let mut props: Vec<&str> = Vec::new();
-    for (on, name) in [(p.normalized, "normalized"), (p.symmetric, "symmetric"), (p.skew, "skew"), (p.regular, "regular")] {
+    for (on, name) in [
+        (p.normalized, "normalized"),
+        (p.symmetric, "symmetric"),
+        (p.skew, "skew"),
+        (p.regular, "regular"),
+    ] {
         if on {
             props.push(name);
         }
     }
     println!("  id          {}", r.sha256);
-    println!("  properties  {} (excess {})", if props.is_empty() { "none of normalized, symmetric, skew, regular".into() } else { props.join(", ") }, p.excess);
+    println!(
+        "  properties  {} (excess {})",
+        if props.is_empty() {
+            "none of normalized, symmetric, skew, regular".into()
+        } else {
+            props.join(", ")
+        },
+        p.excess
+    );
     println!("  read as     {format}");
-    println!("  check       {} on {}, {:.3} ms", r.check, r.kernel, secs * 1e3);
+    println!(
+        "  check       {} on {}, {:.3} ms",
+        r.check,
+        r.kernel,
+        secs * 1e3
+    );
 }

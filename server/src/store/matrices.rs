@@ -59,7 +59,11 @@ fn record(r: &Row<'_>) -> rusqlite::Result<MatrixRecord> {
         properties_json: r.get(2)?,
         invariant_kind: r.get(3)?,
         invariant: r.get(4)?,
-        origin: if origin == "constructed" { Origin::Constructed } else { Origin::Uploaded },
+        origin: if origin == "constructed" {
+            Origin::Constructed
+        } else {
+            Origin::Uploaded
+        },
         recipe_json: r.get(6)?,
         received_format: r.get(7)?,
         created_at: r.get(8)?,
@@ -84,7 +88,10 @@ pub fn decode(n: usize, blob: &[u8]) -> Option<Matrix> {
     if !blob.len().is_multiple_of(8) {
         return None;
     }
-    let words = blob.chunks_exact(8).map(|c| u64::from_le_bytes(c.try_into().unwrap_or([0; 8]))).collect();
+    let words = blob
+        .chunks_exact(8)
+        .map(|c| u64::from_le_bytes(c.try_into().unwrap_or([0; 8])))
+        .collect();
     Matrix::from_words(n, n, words)
 }
 
@@ -116,20 +123,30 @@ pub fn insert(c: &Connection, rec: &MatrixRecord, bits: &[u8]) -> Result<bool, S
 
 /// The record of `id`, if stored.
 pub fn get(c: &Connection, id: &str) -> Result<Option<MatrixRecord>, StoreError> {
-    let mut st = c.prepare_cached(concat!("SELECT ", columns!(), " FROM matrices WHERE id = ?1"))?;
+    let mut st = c.prepare_cached(concat!(
+        "SELECT ",
+        columns!(),
+        " FROM matrices WHERE id = ?1"
+    ))?;
     Ok(st.query_row([id], record).optional()?)
 }
 
 /// The order and bits of `id`, if stored.
 pub fn get_bits(c: &Connection, id: &str) -> Result<Option<(usize, Vec<u8>)>, StoreError> {
     let mut st = c.prepare_cached("SELECT n, bits FROM matrices WHERE id = ?1")?;
-    let row: Option<(i64, Vec<u8>)> = st.query_row([id], |r| Ok((r.get(0)?, r.get(1)?))).optional()?;
+    let row: Option<(i64, Vec<u8>)> = st
+        .query_row([id], |r| Ok((r.get(0)?, r.get(1)?)))
+        .optional()?;
     Ok(row.map(|(n, b)| (usize::try_from(n).unwrap_or(0), b)))
 }
 
 /// How many matrices of order `n` are stored.
 pub fn count_of_order(c: &Connection, n: usize) -> Result<u64, StoreError> {
-    let k: i64 = c.query_row("SELECT count(*) FROM matrices WHERE n = ?1", [n as i64], |r| r.get(0))?;
+    let k: i64 = c.query_row(
+        "SELECT count(*) FROM matrices WHERE n = ?1",
+        [n as i64],
+        |r| r.get(0),
+    )?;
     Ok(k as u64)
 }
 
@@ -140,17 +157,37 @@ pub fn count(c: &Connection) -> Result<u64, StoreError> {
 }
 
 /// The stored matrices of order `n`, oldest first, a page at a time.
-pub fn list_of_order(c: &Connection, n: usize, limit: u32, offset: u64) -> Result<Vec<MatrixRecord>, StoreError> {
-    let mut st = c.prepare_cached(concat!("SELECT ", columns!(), " FROM matrices WHERE n = ?1 ORDER BY created_at, id LIMIT ?2 OFFSET ?3"))?;
+pub fn list_of_order(
+    c: &Connection,
+    n: usize,
+    limit: u32,
+    offset: u64,
+) -> Result<Vec<MatrixRecord>, StoreError> {
+    let mut st = c.prepare_cached(concat!(
+        "SELECT ",
+        columns!(),
+        " FROM matrices WHERE n = ?1 ORDER BY created_at, id LIMIT ?2 OFFSET ?3"
+    ))?;
     let rows = st.query_map(params![n as i64, limit, offset as i64], record)?;
     Ok(rows.collect::<Result<Vec<_>, _>>()?)
 }
 
 /// The ids of stored matrices of order `n` with the same invariant, other than `except`, at
 /// most `limit` of them, and how many there are in all.
-pub fn same_invariant(c: &Connection, n: usize, kind: &str, invariant: &str, except: &str, limit: u32) -> Result<(Vec<String>, u64), StoreError> {
+pub fn same_invariant(
+    c: &Connection,
+    n: usize,
+    kind: &str,
+    invariant: &str,
+    except: &str,
+    limit: u32,
+) -> Result<(Vec<String>, u64), StoreError> {
     let mut st = c.prepare_cached("SELECT id FROM matrices WHERE n = ?1 AND invariant_kind = ?2 AND invariant = ?3 AND id <> ?4 ORDER BY created_at, id LIMIT ?5")?;
-    let ids = st.query_map(params![n as i64, kind, invariant, except, limit], |r| r.get(0))?.collect::<Result<Vec<String>, _>>()?;
+    let ids = st
+        .query_map(params![n as i64, kind, invariant, except, limit], |r| {
+            r.get(0)
+        })?
+        .collect::<Result<Vec<String>, _>>()?;
     let total: i64 = c.query_row(
         "SELECT count(*) FROM matrices WHERE n = ?1 AND invariant_kind = ?2 AND invariant = ?3 AND id <> ?4",
         params![n as i64, kind, invariant, except],
@@ -160,7 +197,12 @@ pub fn same_invariant(c: &Connection, n: usize, kind: &str, invariant: &str, exc
 }
 
 /// How many other stored matrices of order `n` carry an invariant of this kind.
-pub fn count_with_invariant(c: &Connection, n: usize, kind: &str, except: &str) -> Result<u64, StoreError> {
+pub fn count_with_invariant(
+    c: &Connection,
+    n: usize,
+    kind: &str,
+    except: &str,
+) -> Result<u64, StoreError> {
     let k: i64 = c.query_row(
         "SELECT count(*) FROM matrices WHERE n = ?1 AND invariant_kind = ?2 AND id <> ?3",
         params![n as i64, kind, except],
@@ -170,19 +212,39 @@ pub fn count_with_invariant(c: &Connection, n: usize, kind: &str, except: &str) 
 }
 
 /// The catalogue's own matrix of order `n`: its id and recipe.
-pub fn catalogue_entry(c: &Connection, n: usize) -> Result<Option<(String, String, String)>, StoreError> {
-    let mut st = c.prepare_cached("SELECT matrix_id, recipe_json, built_at FROM catalogue_entries WHERE n = ?1")?;
-    Ok(st.query_row([n as i64], |r| Ok((r.get(0)?, r.get(1)?, r.get(2)?))).optional()?)
+pub fn catalogue_entry(
+    c: &Connection,
+    n: usize,
+) -> Result<Option<(String, String, String)>, StoreError> {
+    let mut st = c.prepare_cached(
+        "SELECT matrix_id, recipe_json, built_at FROM catalogue_entries WHERE n = ?1",
+    )?;
+    Ok(st
+        .query_row([n as i64], |r| Ok((r.get(0)?, r.get(1)?, r.get(2)?)))
+        .optional()?)
 }
 
 /// The recipe and build time when `id` is the catalogue's own matrix of its order.
-pub fn catalogue_entry_of(c: &Connection, id: &str) -> Result<Option<(String, String)>, StoreError> {
-    let mut st = c.prepare_cached("SELECT recipe_json, built_at FROM catalogue_entries WHERE matrix_id = ?1")?;
-    Ok(st.query_row([id], |r| Ok((r.get(0)?, r.get(1)?))).optional()?)
+pub fn catalogue_entry_of(
+    c: &Connection,
+    id: &str,
+) -> Result<Option<(String, String)>, StoreError> {
+    let mut st = c.prepare_cached(
+        "SELECT recipe_json, built_at FROM catalogue_entries WHERE matrix_id = ?1",
+    )?;
+    Ok(st
+        .query_row([id], |r| Ok((r.get(0)?, r.get(1)?)))
+        .optional()?)
 }
 
 /// Records `id` as the catalogue's matrix of order `n` (first one wins).
-pub fn set_catalogue_entry(c: &Connection, n: usize, id: &str, recipe_json: &str, built_at: &str) -> Result<(), StoreError> {
+pub fn set_catalogue_entry(
+    c: &Connection,
+    n: usize,
+    id: &str,
+    recipe_json: &str,
+    built_at: &str,
+) -> Result<(), StoreError> {
     c.execute(
         "INSERT INTO catalogue_entries (n, matrix_id, recipe_json, built_at) VALUES (?1, ?2, ?3, ?4) ON CONFLICT (n) DO NOTHING",
         params![n as i64, id, recipe_json, built_at],
@@ -191,8 +253,15 @@ pub fn set_catalogue_entry(c: &Connection, n: usize, id: &str, recipe_json: &str
 }
 
 /// Calls `f` with every stored matrix's record and bits, in id order (for `audit`).
-pub fn for_each(c: &Connection, mut f: impl FnMut(MatrixRecord, Vec<u8>)) -> Result<(), StoreError> {
-    let mut st = c.prepare(concat!("SELECT ", columns!(), ", bits FROM matrices ORDER BY id"))?;
+pub fn for_each(
+    c: &Connection,
+    mut f: impl FnMut(MatrixRecord, Vec<u8>),
+) -> Result<(), StoreError> {
+    let mut st = c.prepare(concat!(
+        "SELECT ",
+        columns!(),
+        ", bits FROM matrices ORDER BY id"
+    ))?;
     let mut rows = st.query([])?;
     while let Some(r) = rows.next()? {
         let rec = record(r)?;

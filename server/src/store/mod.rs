@@ -34,7 +34,9 @@ pub enum StoreError {
     Sqlite(rusqlite::Error),
     Io(String),
     /// The file's schema is newer than this binary knows.
-    TooNew { found: i64 },
+    TooNew {
+        found: i64,
+    },
     /// A stored value that cannot be what the schema says (a corrupt or hand-edited file).
     Corrupt(String),
 }
@@ -84,7 +86,9 @@ impl Store {
         let flags = match mode {
             Mode::ReadWrite => {
                 if let Some(dir) = path.parent().filter(|d| !d.as_os_str().is_empty()) {
-                    std::fs::create_dir_all(dir).map_err(|e| StoreError::Io(format!("cannot create {}: {e}", dir.display())))?;
+                    std::fs::create_dir_all(dir).map_err(|e| {
+                        StoreError::Io(format!("cannot create {}: {e}", dir.display()))
+                    })?;
                 }
                 OpenFlags::SQLITE_OPEN_READ_WRITE | OpenFlags::SQLITE_OPEN_CREATE
             }
@@ -107,14 +111,21 @@ impl Store {
                 return Err(StoreError::TooNew { found: v });
             }
         }
-        let reader_flags = (flags - OpenFlags::SQLITE_OPEN_CREATE - OpenFlags::SQLITE_OPEN_READ_WRITE) | OpenFlags::SQLITE_OPEN_READ_ONLY;
+        let reader_flags =
+            (flags - OpenFlags::SQLITE_OPEN_CREATE - OpenFlags::SQLITE_OPEN_READ_WRITE)
+                | OpenFlags::SQLITE_OPEN_READ_ONLY;
         let mut rs = Vec::new();
         for _ in 0..readers.max(1) {
             let c = Connection::open_with_flags(path, reader_flags)?;
             configure(&c)?;
             rs.push(Mutex::new(c));
         }
-        Ok(Store { writer: Mutex::new(writer), readers: rs, next_reader: AtomicUsize::new(0), path: path.to_path_buf() })
+        Ok(Store {
+            writer: Mutex::new(writer),
+            readers: rs,
+            next_reader: AtomicUsize::new(0),
+            path: path.to_path_buf(),
+        })
     }
 
     /// The database file.
@@ -123,7 +134,10 @@ impl Store {
     }
 
     /// Runs `f` on a reader connection. Blocking: call from a blocking thread.
-    pub fn read<T>(&self, f: impl FnOnce(&Connection) -> Result<T, StoreError>) -> Result<T, StoreError> {
+    pub fn read<T>(
+        &self,
+        f: impl FnOnce(&Connection) -> Result<T, StoreError>,
+    ) -> Result<T, StoreError> {
         let k = self.next_reader.fetch_add(1, Ordering::Relaxed) % self.readers.len();
         // A thread that panicked while holding a connection cannot have left a transaction
         // open (rusqlite rolls back on drop), so the connection is still good.
@@ -132,7 +146,10 @@ impl Store {
     }
 
     /// Runs `f` on the writer connection. Blocking: call from a blocking thread.
-    pub fn write<T>(&self, f: impl FnOnce(&mut Connection) -> Result<T, StoreError>) -> Result<T, StoreError> {
+    pub fn write<T>(
+        &self,
+        f: impl FnOnce(&mut Connection) -> Result<T, StoreError>,
+    ) -> Result<T, StoreError> {
         let mut conn = self.writer.lock().unwrap_or_else(|p| p.into_inner());
         f(&mut conn)
     }
@@ -148,12 +165,20 @@ fn configure(c: &Connection) -> rusqlite::Result<()> {
 /// The highest migration applied, 0 for an empty file.
 pub fn schema_version(c: &Connection) -> Result<i64, StoreError> {
     let has_table: Option<i64> = c
-        .query_row("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = 'schema_migrations'", [], |r| r.get(0))
+        .query_row(
+            "SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = 'schema_migrations'",
+            [],
+            |r| r.get(0),
+        )
         .optional()?;
     if has_table.is_none() {
         return Ok(0);
     }
-    Ok(c.query_row("SELECT coalesce(max(version), 0) FROM schema_migrations", [], |r| r.get(0))?)
+    Ok(c.query_row(
+        "SELECT coalesce(max(version), 0) FROM schema_migrations",
+        [],
+        |r| r.get(0),
+    )?)
 }
 
 fn migrate(c: &mut Connection) -> Result<(), StoreError> {
@@ -165,7 +190,10 @@ fn migrate(c: &mut Connection) -> Result<(), StoreError> {
     for (version, sql) in MIGRATIONS.iter().filter(|(v, _)| *v > current) {
         let tx = c.transaction()?;
         tx.execute_batch(sql)?;
-        tx.execute("INSERT INTO schema_migrations (version, applied_at) VALUES (?1, ?2)", rusqlite::params![version, crate::time::now_rfc3339()])?;
+        tx.execute(
+            "INSERT INTO schema_migrations (version, applied_at) VALUES (?1, ?2)",
+            rusqlite::params![version, crate::time::now_rfc3339()],
+        )?;
         tx.commit()?;
         tracing::info!(version, "applied schema migration");
     }
@@ -181,7 +209,10 @@ pub fn checkpoint(c: &mut Connection) -> Result<(), StoreError> {
 
 /// Reads a `meta` value.
 pub fn meta_get(c: &Connection, key: &str) -> Result<Option<String>, StoreError> {
-    Ok(c.query_row("SELECT value FROM meta WHERE key = ?1", [key], |r| r.get(0)).optional()?)
+    Ok(
+        c.query_row("SELECT value FROM meta WHERE key = ?1", [key], |r| r.get(0))
+            .optional()?,
+    )
 }
 
 /// Writes a `meta` value.

@@ -37,18 +37,31 @@ pub fn seed_max_order(c: &Connection) -> Result<Option<u64>, StoreError> {
 }
 
 /// Replaces the orders and sequences with these, in one transaction.
-pub fn replace_seed(c: &mut Connection, orders: &[OrderRow], sequences: &[SequenceRow], max_order: u64, fingerprint: &str) -> Result<(), StoreError> {
+pub fn replace_seed(
+    c: &mut Connection,
+    orders: &[OrderRow],
+    sequences: &[SequenceRow],
+    max_order: u64,
+    fingerprint: &str,
+) -> Result<(), StoreError> {
     let tx = c.transaction()?;
     tx.execute("DELETE FROM orders", [])?;
     tx.execute("DELETE FROM sequences", [])?;
     {
-        let mut ins = tx.prepare("INSERT INTO orders (n, status, info_json) VALUES (?1, ?2, ?3)")?;
+        let mut ins =
+            tx.prepare("INSERT INTO orders (n, status, info_json) VALUES (?1, ?2, ?3)")?;
         for o in orders {
             ins.execute(params![o.n as i64, o.status, o.info_json])?;
         }
         let mut ins = tx.prepare("INSERT INTO sequences (family, length, data_json, provenance, source) VALUES (?1, ?2, ?3, ?4, ?5)")?;
         for s in sequences {
-            ins.execute(params![s.family, s.length as i64, s.data_json, s.provenance, s.source])?;
+            ins.execute(params![
+                s.family,
+                s.length as i64,
+                s.data_json,
+                s.provenance,
+                s.source
+            ])?;
         }
     }
     meta_set(&tx, SEED_MAX_KEY, &max_order.to_string())?;
@@ -66,13 +79,16 @@ pub fn order_info_json(c: &Connection, n: u64) -> Result<Option<String>, StoreEr
 /// The stored (n, status) of every order up to `max`, ascending.
 pub fn statuses_up_to(c: &Connection, max: u64) -> Result<Vec<(u64, String)>, StoreError> {
     let mut st = c.prepare_cached("SELECT n, status FROM orders WHERE n <= ?1 ORDER BY n")?;
-    let rows = st.query_map([max as i64], |r| Ok((r.get::<_, i64>(0)? as u64, r.get(1)?)))?;
+    let rows = st.query_map([max as i64], |r| {
+        Ok((r.get::<_, i64>(0)? as u64, r.get(1)?))
+    })?;
     Ok(rows.collect::<Result<Vec<_>, _>>()?)
 }
 
 /// How many sequence entries are stored, per family.
 pub fn sequence_counts(c: &Connection) -> Result<Vec<(String, u64)>, StoreError> {
-    let mut st = c.prepare_cached("SELECT family, count(*) FROM sequences GROUP BY family ORDER BY family")?;
+    let mut st =
+        c.prepare_cached("SELECT family, count(*) FROM sequences GROUP BY family ORDER BY family")?;
     let rows = st.query_map([], |r| Ok((r.get(0)?, r.get::<_, i64>(1)? as u64)))?;
     Ok(rows.collect::<Result<Vec<_>, _>>()?)
 }

@@ -27,10 +27,20 @@ impl Server {
         // server creates the database's own directory itself).
         let mut dir = db.parent().unwrap_or(Path::new(".")).to_path_buf();
         while !dir.exists() {
-            dir = dir.parent().map(Path::to_path_buf).unwrap_or_else(|| PathBuf::from("."));
+            dir = dir
+                .parent()
+                .map(Path::to_path_buf)
+                .unwrap_or_else(|| PathBuf::from("."));
         }
-        let log = dir.join(format!("{}.log", db.file_name().and_then(|f| f.to_str()).unwrap_or("server")));
-        let stderr = std::fs::OpenOptions::new().create(true).append(true).open(&log).expect("open the server log");
+        let log = dir.join(format!(
+            "{}.log",
+            db.file_name().and_then(|f| f.to_str()).unwrap_or("server")
+        ));
+        let stderr = std::fs::OpenOptions::new()
+            .create(true)
+            .append(true)
+            .open(&log)
+            .expect("open the server log");
         let mut child = Command::new(env!("CARGO_BIN_EXE_hadamard"))
             .args(["serve", "--addr", "127.0.0.1:0", "--db"])
             .arg(db)
@@ -55,7 +65,10 @@ impl Server {
             Ok(l) => l,
             Err(_) => {
                 let _ = child.kill();
-                panic!("the server did not say where it listens within 60 s; log: {}", std::fs::read_to_string(&log).unwrap_or_default());
+                panic!(
+                    "the server did not say where it listens within 60 s; log: {}",
+                    std::fs::read_to_string(&log).unwrap_or_default()
+                );
             }
         };
         let addr = line
@@ -63,8 +76,17 @@ impl Server {
             .nth(1)
             .and_then(|s| s.split('/').next())
             .and_then(|s| s.parse().ok())
-            .unwrap_or_else(|| panic!("unexpected first line {line:?}; log: {}", std::fs::read_to_string(&log).unwrap_or_default()));
-        Server { child: Some(child), addr, db: db.to_path_buf() }
+            .unwrap_or_else(|| {
+                panic!(
+                    "unexpected first line {line:?}; log: {}",
+                    std::fs::read_to_string(&log).unwrap_or_default()
+                )
+            });
+        Server {
+            child: Some(child),
+            addr,
+            db: db.to_path_buf(),
+        }
     }
 
     /// The server's process id.
@@ -75,7 +97,9 @@ impl Server {
     /// Sends SIGTERM to this server's PID and waits for it to exit; returns its exit code.
     pub fn stop(mut self) -> Option<i32> {
         let mut child = self.child.take()?;
-        let _ = Command::new("kill").args(["-TERM", &child.id().to_string()]).status();
+        let _ = Command::new("kill")
+            .args(["-TERM", &child.id().to_string()])
+            .status();
         let deadline = Instant::now() + Duration::from_secs(30);
         loop {
             if let Ok(Some(s)) = child.try_wait() {
@@ -130,11 +154,15 @@ pub struct Resp {
 
 impl Resp {
     pub fn header(&self, name: &str) -> Option<&str> {
-        self.headers.iter().find(|(k, _)| k.eq_ignore_ascii_case(name)).map(|(_, v)| v.as_str())
+        self.headers
+            .iter()
+            .find(|(k, _)| k.eq_ignore_ascii_case(name))
+            .map(|(_, v)| v.as_str())
     }
 
     pub fn json(&self) -> serde_json::Value {
-        serde_json::from_slice(&self.body).unwrap_or_else(|e| panic!("not JSON ({e}): {}", String::from_utf8_lossy(&self.body)))
+        serde_json::from_slice(&self.body)
+            .unwrap_or_else(|e| panic!("not JSON ({e}): {}", String::from_utf8_lossy(&self.body)))
     }
 
     pub fn text(&self) -> String {
@@ -143,17 +171,32 @@ impl Resp {
 }
 
 /// One request on a fresh connection. Panics on transport errors; see [`try_request`].
-pub fn request(addr: SocketAddr, method: &str, path: &str, headers: &[(&str, &str)], body: &[u8]) -> Resp {
-    try_request(addr, method, path, headers, body).unwrap_or_else(|e| panic!("{method} {path}: {e}"))
+pub fn request(
+    addr: SocketAddr,
+    method: &str,
+    path: &str,
+    headers: &[(&str, &str)],
+    body: &[u8],
+) -> Resp {
+    try_request(addr, method, path, headers, body)
+        .unwrap_or_else(|e| panic!("{method} {path}: {e}"))
 }
 
 /// One request on a fresh connection, with a 120 s I/O timeout.
-pub fn try_request(addr: SocketAddr, method: &str, path: &str, headers: &[(&str, &str)], body: &[u8]) -> std::io::Result<Resp> {
+pub fn try_request(
+    addr: SocketAddr,
+    method: &str,
+    path: &str,
+    headers: &[(&str, &str)],
+    body: &[u8],
+) -> std::io::Result<Resp> {
     let mut s = TcpStream::connect_timeout(&addr, Duration::from_secs(10))?;
     s.set_read_timeout(Some(Duration::from_secs(120)))?;
     s.set_write_timeout(Some(Duration::from_secs(120)))?;
     let mut head = format!("{method} {path} HTTP/1.1\r\nHost: {addr}\r\nConnection: close\r\n");
-    let has_length = headers.iter().any(|(k, _)| k.eq_ignore_ascii_case("content-length"));
+    let has_length = headers
+        .iter()
+        .any(|(k, _)| k.eq_ignore_ascii_case("content-length"));
     for (k, v) in headers {
         head.push_str(&format!("{k}: {v}\r\n"));
     }
@@ -170,7 +213,15 @@ pub fn try_request(addr: SocketAddr, method: &str, path: &str, headers: &[(&str,
             return Err(e);
         }
     }
-    parse_response(&raw).ok_or_else(|| std::io::Error::new(std::io::ErrorKind::InvalidData, format!("unparseable response: {:?}", String::from_utf8_lossy(&raw[..raw.len().min(200)]))))
+    parse_response(&raw).ok_or_else(|| {
+        std::io::Error::new(
+            std::io::ErrorKind::InvalidData,
+            format!(
+                "unparseable response: {:?}",
+                String::from_utf8_lossy(&raw[..raw.len().min(200)])
+            ),
+        )
+    })
 }
 
 fn parse_response(raw: &[u8]) -> Option<Resp> {
@@ -178,18 +229,39 @@ fn parse_response(raw: &[u8]) -> Option<Resp> {
     let head = std::str::from_utf8(&raw[..end]).ok()?;
     let mut lines = head.split("\r\n");
     let status: u16 = lines.next()?.split(' ').nth(1)?.parse().ok()?;
-    let headers: Vec<(String, String)> = lines.filter_map(|l| l.split_once(':')).map(|(k, v)| (k.trim().to_owned(), v.trim().to_owned())).collect();
+    let headers: Vec<(String, String)> = lines
+        .filter_map(|l| l.split_once(':'))
+        .map(|(k, v)| (k.trim().to_owned(), v.trim().to_owned()))
+        .collect();
     let rest = &raw[end + 4..];
-    let chunked = headers.iter().any(|(k, v)| k.eq_ignore_ascii_case("transfer-encoding") && v.contains("chunked"));
-    let body = if chunked { dechunk(rest)? } else { rest.to_vec() };
-    Some(Resp { status, headers, body })
+    let chunked = headers
+        .iter()
+        .any(|(k, v)| k.eq_ignore_ascii_case("transfer-encoding") && v.contains("chunked"));
+    let body = if chunked {
+        dechunk(rest)?
+    } else {
+        rest.to_vec()
+    };
+    Some(Resp {
+        status,
+        headers,
+        body,
+    })
 }
 
 fn dechunk(mut b: &[u8]) -> Option<Vec<u8>> {
     let mut out = Vec::new();
     loop {
         let nl = b.windows(2).position(|w| w == b"\r\n")?;
-        let size = usize::from_str_radix(std::str::from_utf8(&b[..nl]).ok()?.split(';').next()?.trim(), 16).ok()?;
+        let size = usize::from_str_radix(
+            std::str::from_utf8(&b[..nl])
+                .ok()?
+                .split(';')
+                .next()?
+                .trim(),
+            16,
+        )
+        .ok()?;
         b = &b[nl + 2..];
         if size == 0 {
             return Some(out);
