@@ -363,19 +363,25 @@ fn refusals_400_413_422() {
         s.post("/api/matrices?format=klingon", b"++\n+-\n").status,
         400
     );
-    // A .npy header that declares far more data than it has.
-    let mut npy = b"\x93NUMPY\x01\x00".to_vec();
-    let header = "{'descr': '|i1', 'fortran_order': False, 'shape': (40000, 40000), }";
-    let mut h = header.to_owned();
-    while !(10 + h.len() + 1).is_multiple_of(64) {
-        h.push(' ');
-    }
-    h.push('\n');
-    npy.extend_from_slice(&(h.len() as u16).to_le_bytes());
-    npy.extend_from_slice(h.as_bytes());
-    npy.extend_from_slice(&[1u8; 16]);
-    let r = s.post("/api/matrices", &npy);
+    // A .npy header that declares more data than it has: 400. One that declares an order
+    // above --max-order: 413, before any data is read.
+    let npy_of = |shape: &str| {
+        let mut npy = b"\x93NUMPY\x01\x00".to_vec();
+        let mut h = format!("{{'descr': '|i1', 'fortran_order': False, 'shape': {shape}, }}");
+        while !(10 + h.len() + 1).is_multiple_of(64) {
+            h.push(' ');
+        }
+        h.push('\n');
+        npy.extend_from_slice(&(h.len() as u16).to_le_bytes());
+        npy.extend_from_slice(h.as_bytes());
+        npy.extend_from_slice(&[1u8; 16]);
+        npy
+    };
+    let r = s.post("/api/matrices", &npy_of("(60, 60)"));
     assert_eq!(r.status, 400, "{}", r.text());
+    let r = s.post("/api/matrices", &npy_of("(40000, 40000)"));
+    assert_eq!(r.status, 413, "{}", r.text());
+    assert_eq!(r.json()["kind"], "over_max_order");
 
     // Well-formed, not Hadamard: 422 with the failing pairs.
     let r = s.post(
@@ -430,10 +436,13 @@ fn refusals_400_413_422() {
     );
     assert_eq!(r.status, 413);
 
-    // Orders above --max-order are neither uploaded nor built.
+    // Orders above --max-order are neither uploaded nor built: 413, the place and the limit.
     let big = sylvester_variant(7, 0);
     let r = s.post("/api/matrices", big.as_bytes());
-    assert_eq!(r.status, 400, "{}", r.text());
+    assert_eq!(r.status, 413, "{}", r.text());
+    assert_eq!(r.json()["limit"], 64);
+    assert_eq!(r.json()["kind"], "over_max_order");
+    assert!(r.json()["location"].is_object(), "{}", r.text());
     assert_eq!(s.get("/api/orders/128/matrix").status, 422);
 
     // Nothing refused was stored.

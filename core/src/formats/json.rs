@@ -134,7 +134,8 @@ pub(super) fn read(body: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseError
                 format!("expected '[' to start row {}, found {}", row + 1, p.found()),
             ));
         }
-        b.begin_row().map_err(|s| p.err(p.pos, s.message(row)))?;
+        b.begin_row()
+            .map_err(|s| s.into_error(row, |m| p.err(p.pos, m)))?;
         p.pos += 1;
         p.skip_ws();
         if p.peek() == Some(b']') {
@@ -144,7 +145,8 @@ pub(super) fn read(body: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseError
             p.skip_ws();
             let at = p.pos;
             let negative = p.entry()?;
-            b.push(negative).map_err(|s| p.err(at, s.message(row)))?;
+            b.push(negative)
+                .map_err(|s| s.into_error(row, |m| p.err(at, m)))?;
             p.skip_ws();
             match p.peek() {
                 Some(b',') => p.pos += 1,
@@ -159,7 +161,8 @@ pub(super) fn read(body: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseError
                 }
             }
         }
-        b.end_row().map_err(|s| p.err(p.pos, s.message(row)))?;
+        b.end_row()
+            .map_err(|s| s.into_error(row, |m| p.err(p.pos, m)))?;
         p.pos += 1;
         p.skip_ws();
         match p.peek() {

@@ -237,6 +237,10 @@ pub struct ParseError {
     pub message: String,
     /// The place.
     pub location: Location,
+    /// True when the input is well-formed so far but larger than [`ReadOptions::max_order`]:
+    /// a limit of the reader, not a fault of the file (a server answers 413, not 400).
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub over_max_order: bool,
 }
 
 impl ParseError {
@@ -244,6 +248,15 @@ impl ParseError {
         ParseError {
             message: message.into(),
             location,
+            over_max_order: false,
+        }
+    }
+
+    /// The same error, marked as past the order limit.
+    pub(crate) fn past_max_order(self) -> ParseError {
+        ParseError {
+            over_max_order: true,
+            ..self
         }
     }
 }

@@ -366,7 +366,8 @@ pub(super) fn read(bytes: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseErro
         return Err(shape_err(format!(
             "shape ({rows}, {cols}) is above the maximum order {}",
             opts.max_order
-        )));
+        ))
+        .past_max_order());
     }
     let need = rows
         .checked_mul(cols)

@@ -5,6 +5,7 @@
 //! and the shape rules (ragged rows, the order limit) live in one place. The builder knows
 //! nothing about where an entry came from; it says what went wrong and the reader says where.
 
+use super::ParseError;
 use crate::matrix::{words_for, Matrix};
 
 /// A shape rule an entry or row broke.
@@ -21,6 +22,21 @@ pub(super) enum Shape {
 }
 
 impl Shape {
+    /// The error for row `row`, placed by `make`, and marked when it is the order limit.
+    pub(super) fn into_error(
+        self,
+        row: usize,
+        make: impl FnOnce(String) -> ParseError,
+    ) -> ParseError {
+        let limit = matches!(self, Shape::PastMaxOrder { .. } | Shape::TooManyRows { .. });
+        let e = make(self.message(row));
+        if limit {
+            e.past_max_order()
+        } else {
+            e
+        }
+    }
+
     /// The message, for row `row` (0-based; shown 1-based).
     pub(super) fn message(self, row: usize) -> String {
         let r = row + 1;

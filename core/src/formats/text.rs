@@ -129,7 +129,7 @@ pub(super) fn read(body: &[u8], kind: Kind, opts: &ReadOptions) -> Result<Parsed
         let at = |pos: usize, msg: String| ParseError::new(line_col(body, line, start, pos), msg);
         let row = b.rows();
         b.begin_row()
-            .map_err(|s| at(start + first, s.message(row)))?;
+            .map_err(|s| s.into_error(row, |m| at(start + first, m)))?;
         general_row(
             kind,
             body,
@@ -140,7 +140,7 @@ pub(super) fn read(body: &[u8], kind: Kind, opts: &ReadOptions) -> Result<Parsed
             &mut b,
         )
         .map_err(|(pos, e)| match e {
-            Bad::Shape(s) => at(pos, s.message(row)),
+            Bad::Shape(s) => s.into_error(row, |m| at(pos, m)),
             Bad::Message(m) => at(pos, m),
         })?;
     }

@@ -115,6 +115,13 @@ pub async fn upload(
         )
         .with("order", order)
         .with("erased_entries", erased)),
+        Err(UploadError::Malformed(p)) if p.over_max_order => Err(ApiError::new(
+            StatusCode::PAYLOAD_TOO_LARGE,
+            format!("{p} (this server's --max-order is {})", state.config.max_order),
+        )
+        .with("kind", "over_max_order")
+        .with("limit", state.config.max_order)
+        .with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
         Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string()).with("kind", "malformed").with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
         Err(UploadError::Store(e)) => Err(e.into()),
     }
