@@ -60,14 +60,14 @@ def lacks(route):
 
 def multiplier_report(v):
     listing = run("search", "gs", "--v", str(v)).stderr
-    groups = [(int(g), int(k)) for g, k in re.findall(r"--multiplier (\d+)\s+a group of \d+ multipliers, (\d+) orbits", listing)]
+    groups = [(g, int(k)) for g, k in re.findall(r"--multiplier ([\d,]+)\s+a group of \d+ multipliers, (\d+) orbits", listing)]
     tried, next_up = [], None
     for g, k in groups:
         if k > MAX_ORBITS:
             next_up = next_up or (g, k)
             continue
         try:
-            r = run("search", "gs", "--v", str(v), "--multiplier", str(g), "--all", "--json", "--quiet", timeout=TIMEOUT)
+            r = run("search", "gs", "--v", str(v), "--multiplier", g, "--all", "--json", "--quiet", timeout=TIMEOUT)
             found = len(json.loads(r.stdout)["results"]) if r.returncode == 0 else None
         except subprocess.TimeoutExpired:
             found = None

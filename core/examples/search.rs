@@ -73,16 +73,19 @@ fn main() {
         "gs" => run_to_end(&goethals_seidel::GsSearch::new(p), limit),
         // `gs-multiplier V G [LIMIT]`: quadruples fixed by the multipliers ⟨G⟩ mod V.
         "gs-multiplier" => {
-            let g: usize = args[3].parse().expect("G");
+            let g: Vec<usize> = args[3].split(',').map(|x| x.parse().expect("G")).collect();
             let limit = args.get(4).and_then(|x| x.parse().ok()).filter(|&l| l > 0);
-            let s =
-                goethals_seidel::GsSearch::with_multiplier(p, g).unwrap_or_else(|e| panic!("{e}"));
+            let s = goethals_seidel::GsSearch::with_multipliers(p, &g)
+                .unwrap_or_else(|e| panic!("{e}"));
             eprintln!("{} orbits", s.degrees_of_freedom());
             run_to_end(&s, limit)
         }
         "gs-multipliers" => goethals_seidel::multiplier_choices(p, 30)
             .into_iter()
-            .map(|(g, h, k)| format!("multiplier {g}: group of {h}, {k} orbits"))
+            .map(|(g, h, k)| {
+                let g: Vec<String> = g.iter().map(|x| x.to_string()).collect();
+                format!("multiplier {}: group of {h}, {k} orbits", g.join(","))
+            })
             .collect(),
         k => panic!("unknown search {k}"),
     };

@@ -84,10 +84,10 @@ enum Kind {
         /// The length v.
         #[arg(long)]
         v: usize,
-        /// Search only sequences fixed by the multipliers ⟨G⟩ mod v (aᵢ = a_{Gi}). Without it,
-        /// v > 40 lists the groups that can be searched.
-        #[arg(long, value_name = "G")]
-        multiplier: Option<usize>,
+        /// Search only sequences fixed by the multipliers ⟨G⟩ mod v (aᵢ = a_{Gi}); `G,G2` for the
+        /// group two multipliers generate. Without it, v > 40 lists the groups there are.
+        #[arg(long, value_name = "G", value_delimiter = ',')]
+        multiplier: Option<Vec<usize>>,
         #[command(flatten)]
         what: What,
         #[command(flatten)]
@@ -206,7 +206,7 @@ pub fn run(args: SearchArgs) -> ExitCode {
             common,
         } => {
             let s = match multiplier {
-                Some(g) => match goethals_seidel::GsSearch::with_multiplier(v, g) {
+                Some(g) => match goethals_seidel::GsSearch::with_multipliers(v, &g) {
                     Ok(s) => s,
                     Err(e) => {
                         eprintln!("error: {e}");
@@ -224,8 +224,12 @@ pub fn run(args: SearchArgs) -> ExitCode {
                             goethals_seidel::MAX_ORBITS
                         );
                     }
-                    for (g, size, orbits) in choices {
-                        eprintln!("  --multiplier {g:<5} a group of {size} multipliers, {orbits} orbits (2^{orbits} sequences)");
+                    for (gens, size, orbits) in choices {
+                        let g: Vec<String> = gens.iter().map(|g| g.to_string()).collect();
+                        eprintln!(
+                            "  --multiplier {:<9} a group of {size} multipliers, {orbits} orbits (2^{orbits} sequences)",
+                            g.join(",")
+                        );
                     }
                     return ExitCode::from(2);
                 }
