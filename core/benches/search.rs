@@ -116,9 +116,9 @@ fn main() {
             2,
         );
     }
-    // Multiplier-fixed quadruples: the seeds of orders 172 (Williamson m = 43), 292 (v = 73) and
-    // 1068 (v = 267), all known to exist (constructions.md §1 [recalled]).
-    for (v, g) in [(43, 7), (73, 2), (267, 2)] {
+    // Multiplier-fixed quadruples: the seeds of Williamson m = 41, 43 and 63, and of orders 292
+    // (v = 73) and 1068 (v = 267), all known to exist (constructions.md §1, §3 [recalled]).
+    for (v, g) in [(41, 9), (43, 7), (63, 5), (73, 2), (267, 2)] {
         let s = hadamard_core::search::goethals_seidel::GsSearch::with_multiplier(v, g)
             .expect("a unit with few orbits");
         let r = timed(&format!("gs v={v} multiplier={g} first"), &s, Some(1), 8);
