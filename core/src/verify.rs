@@ -431,22 +431,17 @@ fn tile(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
     tile_scalar(m, i0, j0, acc);
 }
 
+/// The words of rows i0..i0+T, one tile's side.
+#[inline(always)]
+fn four_rows(m: &Matrix, i0: usize) -> [&[u64]; T] {
+    std::array::from_fn(|r| m.row_words(i0 + r))
+}
+
 /// The portable tile: sixteen running popcounts over the rows' words.
 #[inline(always)]
 fn tile_scalar(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
     let w = m.words_per_row();
-    let a = [
-        m.row_words(i0),
-        m.row_words(i0 + 1),
-        m.row_words(i0 + 2),
-        m.row_words(i0 + 3),
-    ];
-    let b = [
-        m.row_words(j0),
-        m.row_words(j0 + 1),
-        m.row_words(j0 + 2),
-        m.row_words(j0 + 3),
-    ];
+    let (a, b) = (four_rows(m, i0), four_rows(m, j0));
     let (a0, a1, a2, a3) = (&a[0][..w], &a[1][..w], &a[2][..w], &a[3][..w]);
     let (b0, b1, b2, b3) = (&b[0][..w], &b[1][..w], &b[2][..w], &b[3][..w]);
     let mut s = [[0u32; T]; T];
@@ -696,18 +691,7 @@ mod wasm_simd {
     #[inline(always)]
     pub fn tile_simd128(m: &Matrix, i0: usize, j0: usize, acc: &mut [[u32; T]; T]) {
         let w = m.words_per_row();
-        let a = [
-            m.row_words(i0),
-            m.row_words(i0 + 1),
-            m.row_words(i0 + 2),
-            m.row_words(i0 + 3),
-        ];
-        let b = [
-            m.row_words(j0),
-            m.row_words(j0 + 1),
-            m.row_words(j0 + 2),
-            m.row_words(j0 + 3),
-        ];
+        let (a, b) = (super::four_rows(m, i0), super::four_rows(m, j0));
         let steps = w / 2;
         let load = |row: &[u64], k: usize| -> v128 {
             let pair = &row[2 * k..2 * k + 2];
