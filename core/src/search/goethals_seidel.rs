@@ -173,7 +173,7 @@ pub fn multiplier_choices(v: usize, max_orbits: usize) -> Vec<(Vec<usize>, usize
     for &g in &units {
         consider(vec![g], &mut out);
     }
-    if v <= 1000 {
+    if v <= 1000 && !units_are_cyclic(v) {
         for (i, &g) in units.iter().enumerate() {
             for &g2 in &units[i + 1..] {
                 consider(vec![g, g2], &mut out);
@@ -182,6 +182,15 @@ pub fn multiplier_choices(v: usize, max_orbits: usize) -> Vec<(Vec<usize>, usize
     }
     out.sort_by(|a, b| (a.2, a.0.len(), &a.0).cmp(&(b.2, b.0.len(), &b.0)));
     out
+}
+
+/// True when the units mod v form a cyclic group, so every group of multipliers is some ⟨g⟩:
+/// v = 1, 2, 4, p^k or 2p^k for an odd prime p (Gauss's primitive-root theorem, common
+/// practice).
+fn units_are_cyclic(v: usize) -> bool {
+    let odd_prime_power =
+        |n: usize| crate::arith::prime_power(n as u64).is_some_and(|(p, _)| p != 2);
+    v <= 4 || odd_prime_power(v) || (v % 2 == 0 && odd_prime_power(v / 2))
 }
 
 /// A unit: a decomposition and a range of its outer sequences.
@@ -614,6 +623,8 @@ mod tests {
         // The units mod 15 are Z₂ × Z₄, not cyclic: ⟨4, 11⟩ = {1, 4, 11, 14} is a Klein four-group
         // (each element squares to 1), which no single multiplier generates, and the list of
         // choices offers it with its two generators.
+        assert!(!units_are_cyclic(15) && !units_are_cyclic(8) && !units_are_cyclic(213));
+        assert!(units_are_cyclic(4) && units_are_cyclic(125) && units_are_cyclic(2 * 997));
         let klein = generated_group(15, &[4, 11]);
         assert_eq!(klein, vec![1, 4, 11, 14]);
         assert!(klein.iter().all(|&x| x * x % 15 == 1));
