@@ -80,7 +80,7 @@ fn main() {
         let h = sylvester(n);
         let reps = if n >= 4096 { 5 } else { 11 };
         let np = numpy_secs(n, if n >= 4096 { 3 } else { 5 });
-        for kernel in ["scalar", "popcnt", "avx512", "simd128", "auto"] {
+        for kernel in ["scalar", "popcnt", "avx512", "simd128", "sliced", "auto"] {
             if !force_kernel(kernel) {
                 continue;
             }

@@ -439,7 +439,7 @@ fn extract(src: &[u64], start: usize, len: usize) -> u64 {
 }
 
 /// In-place transpose of a 64×64 bit matrix (row k = word k, column j = bit j).
-fn transpose64(a: &mut [u64; 64]) {
+pub(crate) fn transpose64(a: &mut [u64; 64]) {
     let mut j = 32;
     let mut m: u64 = 0x0000_0000_FFFF_FFFF;
     while j != 0 {

@@ -11,8 +11,10 @@
 //! at build time in wasm32:
 //! - x86-64 with AVX-512 VPOPCNTDQ: eight words per instruction;
 //! - x86-64 with POPCNT: the scalar tile with the hardware instruction;
-//! - wasm32 built with `simd128`: two words per `v128`, counted by `i8x16.popcnt` into byte
-//!   counters that are widened every 31 steps, before a byte could overflow;
+//! - wasm32 built with `simd128`: the bit-sliced kernel of [`sliced`] (128 pairs per `v128`,
+//!   counted by carry-save adders over a transposed panel of rows, no popcount in the loop),
+//!   for every matrix with an even number of columns; otherwise the simd128 tile, two words
+//!   per `v128` counted by `i8x16.popcnt` into byte counters widened every 31 steps;
 //! - anything else, including wasm32 without `simd128`: the scalar tile (`i64.popcnt`).
 //!
 //! No build flag is needed natively (`is_x86_feature_detected!`); wasm32 has no run-time
@@ -27,6 +29,9 @@
 
 use crate::id::matrix_id;
 use crate::matrix::Matrix;
+
+#[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+mod sliced;
 use serde::{Deserialize, Serialize};
 
 /// How many failing pairs a report lists at most. The total count is always exact.
@@ -198,7 +203,7 @@ fn report_from(facts: Facts, tally: PairTally) -> Report {
         failing_pairs: pairs,
         failing_pairs_total: total,
         check: format!("{CHECK_NAME}/v{CHECK_VERSION}"),
-        kernel: kernel_name().to_string(),
+        kernel: kernel_for(order, cols).to_string(),
     }
 }
 
@@ -304,6 +309,15 @@ const T: usize = 4;
 /// tile of rows i above it streams past, so each word is fetched from memory about n/P times
 /// instead of n/4 times.
 fn panel_rows(m: &Matrix) -> usize {
+    // In wasm32 with simd128 a panel is the bit-sliced kernel's two blocks of 128 rows. It is
+    // fixed at build time, not by the kernel chosen at run time, so a `Split` is the same
+    // on the page and in every worker.
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        let _ = m;
+        return sliced::BLOCKS * 128;
+    }
+    #[allow(unreachable_code)]
     let row_bytes = (m.words_per_row() * 8).max(8);
     ((32 * 1024 / row_bytes) / T * T).clamp(T, 1024)
 }
@@ -356,6 +370,13 @@ fn gram_pass(m: &Matrix, tally: &mut PairTally) {
 fn panel_pass(m: &Matrix, panel: usize, p: usize, tally: &mut PairTally) {
     let n = m.rows();
     let (j_lo, j_hi) = (p * panel, ((p + 1) * panel).min(n));
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        if wasm_simd::sliced_allowed() && sliced::fits(m) && j_hi > j_lo {
+            sliced::panel_pass(m, j_lo, j_hi, tally);
+            return;
+        }
+    }
     let mut i0 = 0;
     while i0 < j_hi {
         let full_i = i0 + T <= n;
@@ -469,6 +490,9 @@ pub fn kernel_name() -> &'static str {
     }
     #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
     {
+        if wasm_simd::sliced_allowed() {
+            return "wasm32-simd128-sliced";
+        }
         if !wasm_simd::scalar_forced() {
             return "wasm32-simd128-tiled";
         }
@@ -479,6 +503,19 @@ pub fn kernel_name() -> &'static str {
     }
     #[allow(unreachable_code)]
     "scalar-tiled"
+}
+
+/// The kernel that checks a matrix of this shape here: [`kernel_name`], except that the
+/// bit-sliced kernel leaves the shapes it does not take to the tile.
+fn kernel_for(rows: usize, cols: usize) -> &'static str {
+    #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
+    {
+        if wasm_simd::sliced_allowed() && !sliced::fits_shape(rows, cols) {
+            return "wasm32-simd128-tiled";
+        }
+    }
+    let _ = (rows, cols);
+    kernel_name()
 }
 
 #[cfg(target_arch = "x86_64")]
@@ -614,7 +651,8 @@ mod x86 {
 }
 
 /// Selects the verification kernel: `"auto"` (the best here), `"scalar"`, `"popcnt"` or
-/// `"avx512"` on x86-64, `"simd128"` in wasm32 built with simd128.
+/// `"avx512"` on x86-64; `"sliced"` (the default) or `"simd128"` (the tile) in wasm32 built
+/// with simd128.
 /// Benchmarks use this to compare kernels in one run; the verdict never depends on it.
 /// Returns false when the name is unknown or the CPU lacks the kernel.
 pub fn force_kernel(name: &str) -> bool {
@@ -639,8 +677,9 @@ pub fn force_kernel(name: &str) -> bool {
     #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
     {
         match name {
-            "auto" | "simd128" => wasm_simd::force_scalar(false),
-            "scalar" => wasm_simd::force_scalar(true),
+            "auto" | "sliced" => wasm_simd::force(0),
+            "simd128" => wasm_simd::force(1),
+            "scalar" => wasm_simd::force(2),
             _ => return false,
         }
         true
@@ -658,18 +697,26 @@ pub fn force_kernel(name: &str) -> bool {
 mod wasm_simd {
     use super::{Matrix, T};
     use std::arch::wasm32::*;
-    use std::sync::atomic::{AtomicBool, Ordering};
+    use std::sync::atomic::{AtomicU8, Ordering};
 
-    static SCALAR: AtomicBool = AtomicBool::new(false);
+    /// The kernel asked for: 0 the bit-sliced one where it fits (the default), 1 the simd128
+    /// tile, 2 the scalar tile.
+    static MODE: AtomicU8 = AtomicU8::new(0);
 
     /// True when a test or benchmark asked for the scalar tile.
     #[inline]
     pub fn scalar_forced() -> bool {
-        SCALAR.load(Ordering::Relaxed)
+        MODE.load(Ordering::Relaxed) == 2
     }
 
-    pub fn force_scalar(on: bool) {
-        SCALAR.store(on, Ordering::Relaxed);
+    /// True unless a test or benchmark asked for one of the tiles.
+    #[inline]
+    pub fn sliced_allowed() -> bool {
+        MODE.load(Ordering::Relaxed) == 0
+    }
+
+    pub fn force(mode: u8) {
+        MODE.store(mode, Ordering::Relaxed);
     }
 
     /// Steps of one `v128` (two words) before the byte counters are widened: a byte of
@@ -873,7 +920,7 @@ pub fn check_share(m: &Matrix, s: usize, cap: usize) -> Share {
         cols: m.cols(),
         failing_pairs: tally.into_pairs(),
         failing_pairs_total,
-        kernel: kernel_name().to_string(),
+        kernel: kernel_for(m.rows(), m.cols()).to_string(),
     }
 }
 
@@ -1037,7 +1084,7 @@ mod tests {
     }
 
     /// Every kernel there is here: the names `force_kernel` accepts.
-    const KERNELS: [&str; 5] = ["scalar", "popcnt", "avx512", "simd128", "auto"];
+    const KERNELS: [&str; 6] = ["scalar", "popcnt", "avx512", "simd128", "sliced", "auto"];
 
     fn random_matrix(rows: usize, cols: usize, seed: &mut u64) -> Matrix {
         Matrix::from_fn(rows, cols, |_, _| {
@@ -1054,8 +1101,10 @@ mod tests {
         // (62 words), and the AVX-512 kernel's eight-word steps.
         #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
         {
-            force_kernel("auto");
+            force_kernel("simd128");
             assert_eq!(kernel_name(), "wasm32-simd128-tiled");
+            force_kernel("auto");
+            assert_eq!(kernel_name(), "wasm32-simd128-sliced");
         }
         let mut seed = 0x2545f4914f6cdd1du64;
         for words in [1, 2, 3, 7, 8, 9, 16, 61, 62, 63, 64, 65, 124, 125, 130] {
@@ -1248,6 +1297,105 @@ mod tests {
             }
             force_kernel("auto");
         }
+    }
+
+    #[test]
+    fn damaged_paley_matrices_fail_exactly_the_naive_pairs() {
+        // Paley I matrices (R. E. A. C. Paley, J. Math. Phys. 12 (1933) 311–320) of orders
+        // that are not multiples of 64, one spanning two panels of 256 rows, checked whole,
+        // cut to fewer rows than columns, with negated rows (rows of every weight, the first
+        // with no −1 at all), and with a few entries flipped: every kernel must report exactly
+        // the pairs a naive inner product finds.
+        let mut seed = 0x51a3_c0de_77e1_f00du64;
+        let mut next = |k: usize| {
+            seed ^= seed << 13;
+            seed ^= seed >> 7;
+            seed ^= seed << 17;
+            (seed % k as u64) as usize
+        };
+        for q in [11u64, 19, 43, 107, 163, 271, 331] {
+            let h = crate::construct::paley::paley_one(q).unwrap().into_matrix();
+            let n = h.rows();
+            let mut cases = vec![h.clone()];
+            let mut cut = Matrix::ones(n * 2 / 3, n);
+            for i in 0..cut.rows() {
+                for j in 0..n {
+                    if h.is_negative(i, j) {
+                        cut.set(i, j, -1);
+                    }
+                }
+            }
+            cases.push(cut);
+            let mut negated = h.clone();
+            for i in (1..n).step_by(3) {
+                negated.negate_row(i);
+            }
+            cases.push(negated.clone());
+            for flips in [1, 2, 5] {
+                let mut d = negated.clone();
+                for _ in 0..flips {
+                    let (i, j) = (next(n), next(n));
+                    d.set(i, j, -d.get(i, j));
+                }
+                cases.push(d);
+            }
+            for m in &cases {
+                let mut want = Vec::new();
+                for i in 0..m.rows() {
+                    for j in i + 1..m.rows() {
+                        let d = m.row_dot(i, j);
+                        if d != 0 {
+                            want.push(FailingPair { i, j, dot: d });
+                        }
+                    }
+                }
+                for kernel in KERNELS {
+                    if !force_kernel(kernel) {
+                        continue;
+                    }
+                    let r = verify_with_cap(m, 1000);
+                    assert_eq!(r.failing_pairs_total, want.len() as u64, "q={q} {kernel}");
+                    assert_eq!(
+                        r.failing_pairs,
+                        want[..want.len().min(1000)],
+                        "q={q} {kernel}"
+                    );
+                }
+                force_kernel("auto");
+            }
+        }
+    }
+
+    #[test]
+    fn inner_products_of_every_size_are_told_apart() {
+        // Row k is one row of the Sylvester matrix of order 2048 with its first 2k entries
+        // negated, so rows k < l have inner product 2048 − 4(l − k) when 2l ≤ 2048: every
+        // inner product ≡ 0 (mod 4) between −2048 and 2048 occurs, so the bit-sliced kernel's
+        // counts miss their targets by every amount, in every bit. Every kernel must agree
+        // with a naive count.
+        let n = 2048;
+        let rows = 1030;
+        let base = |j: usize| (5 & j).count_ones() % 2 == 1;
+        let m = Matrix::from_fn(rows, n, |k, j| base(j) ^ (j < 2 * k));
+        let mut want = Vec::new();
+        for i in 0..rows {
+            for j in i + 1..rows {
+                let d = m.row_dot(i, j);
+                if d != 0 {
+                    want.push(FailingPair { i, j, dot: d });
+                }
+            }
+        }
+        assert!(want.len() > 500_000, "few failing pairs: {}", want.len());
+        for kernel in KERNELS {
+            if !force_kernel(kernel) {
+                continue;
+            }
+            let r = verify_with_cap(&m, 100);
+            assert_eq!(r.failing_pairs_total, want.len() as u64, "{kernel}");
+            assert_eq!(r.failing_pairs, want[..100], "{kernel}");
+        }
+        force_kernel("auto");
     }
 
     #[test]
