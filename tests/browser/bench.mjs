@@ -15,6 +15,9 @@ const orders = (process.env.BENCH_ORDERS || '1024,2048,4096').split(',').map(Num
 // BENCH_NO_WORKERS=1 hides Web Workers from the page, so it checks on its own thread.
 const noWorkers = process.env.BENCH_NO_WORKERS === '1';
 const reps = Number(process.env.BENCH_REPS || 3);
+// BENCH_PAUSE_MS: an idle pause before each check, so that the page has finished drawing the
+// last verdict (and the browser collecting its garbage) when the next check starts.
+const pauseMs = Number(process.env.BENCH_PAUSE_MS || 0);
 const dir = mkdtempSync(join(tmpdir(), 'hadamard-bench-'));
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
@@ -68,6 +71,7 @@ try {
   const page = await browser.newPage();
   if (noWorkers) await page.addInitScript(() => { delete window.Worker; });
   page.on('pageerror', (e) => { throw e; });
+  if (process.env.BENCH_LOG) page.on('console', (m) => console.error(m.text()));
   await page.goto(server.url + '/verify');
   await page.waitForSelector('#matrix-file');
   for (const n of orders) {
@@ -78,6 +82,7 @@ try {
     let workers = 0, kernel = '';
     const busy = [];
     for (let r = 0; r < reps; r++) {
+      if (pauseMs) await page.waitForTimeout(pauseMs);
       await page.evaluate(() => {
         window.__gaps = [];
         let last = performance.now();

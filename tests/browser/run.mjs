@@ -269,7 +269,7 @@ try {
       await page.setInputFiles('#matrix-file', file);
       eq(await verdict(page), 'not-hadamard', 'data-verdict');
       const v = await page.$('#verdict');
-      eq(await v.getAttribute('data-kernel'), 'wasm32-simd128-tiled', 'kernel');
+      eq(await v.getAttribute('data-kernel'), 'wasm32-simd128-sliced', 'kernel');
       const workers = Number(await v.getAttribute('data-workers'));
       assert(onWorkers ? workers >= 1 : workers === 0, `checked by ${workers} workers`);
       const n = cli.order;
