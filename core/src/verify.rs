@@ -29,10 +29,10 @@
 
 use crate::id::matrix_id;
 use crate::matrix::Matrix;
+use serde::{Deserialize, Serialize};
 
 #[cfg(all(target_arch = "wasm32", target_feature = "simd128"))]
 mod sliced;
-use serde::{Deserialize, Serialize};
 
 /// How many failing pairs a report lists at most. The total count is always exact.
 pub const DEFAULT_PAIR_CAP: usize = 64;
@@ -1086,6 +1086,20 @@ mod tests {
     /// Every kernel there is here: the names `force_kernel` accepts.
     const KERNELS: [&str; 6] = ["scalar", "popcnt", "avx512", "simd128", "sliced", "auto"];
 
+    /// Every pair i < j whose rows are not orthogonal, by the plain inner product.
+    fn naive_failing_pairs(m: &Matrix) -> Vec<FailingPair> {
+        let mut want = Vec::new();
+        for i in 0..m.rows() {
+            for j in i + 1..m.rows() {
+                let dot = m.row_dot(i, j);
+                if dot != 0 {
+                    want.push(FailingPair { i, j, dot });
+                }
+            }
+        }
+        want
+    }
+
     fn random_matrix(rows: usize, cols: usize, seed: &mut u64) -> Matrix {
         Matrix::from_fn(rows, cols, |_, _| {
             *seed ^= *seed << 13;
@@ -1267,15 +1281,7 @@ mod tests {
                 seed ^= seed << 17;
                 seed & 1 == 1
             });
-            let mut want = Vec::new();
-            for i in 0..n {
-                for j in i + 1..n {
-                    let d = m.row_dot(i, j);
-                    if d != 0 {
-                        want.push(FailingPair { i, j, dot: d });
-                    }
-                }
-            }
+            let want = naive_failing_pairs(&m);
             for kernel in KERNELS {
                 if !force_kernel(kernel) {
                     continue;
@@ -1317,15 +1323,7 @@ mod tests {
             let h = crate::construct::paley::paley_one(q).unwrap().into_matrix();
             let n = h.rows();
             let mut cases = vec![h.clone()];
-            let mut cut = Matrix::ones(n * 2 / 3, n);
-            for i in 0..cut.rows() {
-                for j in 0..n {
-                    if h.is_negative(i, j) {
-                        cut.set(i, j, -1);
-                    }
-                }
-            }
-            cases.push(cut);
+            cases.push(Matrix::from_fn(n * 2 / 3, n, |i, j| h.is_negative(i, j)));
             let mut negated = h.clone();
             for i in (1..n).step_by(3) {
                 negated.negate_row(i);
@@ -1340,15 +1338,7 @@ mod tests {
                 cases.push(d);
             }
             for m in &cases {
-                let mut want = Vec::new();
-                for i in 0..m.rows() {
-                    for j in i + 1..m.rows() {
-                        let d = m.row_dot(i, j);
-                        if d != 0 {
-                            want.push(FailingPair { i, j, dot: d });
-                        }
-                    }
-                }
+                let want = naive_failing_pairs(m);
                 for kernel in KERNELS {
                     if !force_kernel(kernel) {
                         continue;
@@ -1377,15 +1367,7 @@ mod tests {
         let rows = 1030;
         let base = |j: usize| (5 & j).count_ones() % 2 == 1;
         let m = Matrix::from_fn(rows, n, |k, j| base(j) ^ (j < 2 * k));
-        let mut want = Vec::new();
-        for i in 0..rows {
-            for j in i + 1..rows {
-                let d = m.row_dot(i, j);
-                if d != 0 {
-                    want.push(FailingPair { i, j, dot: d });
-                }
-            }
-        }
+        let want = naive_failing_pairs(&m);
         assert!(want.len() > 500_000, "few failing pairs: {}", want.len());
         for kernel in KERNELS {
             if !force_kernel(kernel) {

@@ -29,7 +29,7 @@
 //! tile reports them) and fewer than 65 535 columns (the counts' bit planes are sized for
 //! that).
 
-use super::{check_pair, PairTally};
+use super::PairTally;
 use crate::matrix::{transpose64, Matrix};
 use std::arch::wasm32::*;
 
@@ -61,28 +61,27 @@ fn csa(acc: &mut v128, a: v128, b: v128) -> v128 {
     carry
 }
 
+/// Adds eight vectors `x(0..8)` into the counters (ones, twos, fours) and returns the carry
+/// of weight eight.
+#[inline(always)]
+fn add8(x: impl Fn(usize) -> v128, o: &mut v128, t: &mut v128, f: &mut v128) -> v128 {
+    let ta = csa(o, x(0), x(1));
+    let tb = csa(o, x(2), x(3));
+    let fa = csa(t, ta, tb);
+    let ta = csa(o, x(4), x(5));
+    let tb = csa(o, x(6), x(7));
+    let fb = csa(t, ta, tb);
+    csa(f, fa, fb)
+}
+
 /// Adds sixteen vectors `x(0..16)` into the counters `s` = (ones, twos, fours, eights) and
 /// returns the carry of weight sixteen.
 #[inline(always)]
 fn add16(x: impl Fn(usize) -> v128, s: &mut [v128; 4]) -> v128 {
-    let [mut o, mut t, mut f, mut e] = *s;
-    let ta = csa(&mut o, x(0), x(1));
-    let tb = csa(&mut o, x(2), x(3));
-    let fa = csa(&mut t, ta, tb);
-    let ta = csa(&mut o, x(4), x(5));
-    let tb = csa(&mut o, x(6), x(7));
-    let fb = csa(&mut t, ta, tb);
-    let ea = csa(&mut f, fa, fb);
-    let ta = csa(&mut o, x(8), x(9));
-    let tb = csa(&mut o, x(10), x(11));
-    let fa = csa(&mut t, ta, tb);
-    let ta = csa(&mut o, x(12), x(13));
-    let tb = csa(&mut o, x(14), x(15));
-    let fb = csa(&mut t, ta, tb);
-    let eb = csa(&mut f, fa, fb);
-    let sixteens = csa(&mut e, ea, eb);
-    *s = [o, t, f, e];
-    sixteens
+    let [o, t, f, e] = s;
+    let ea = add8(&x, o, t, f);
+    let eb = add8(|k| x(k + 8), o, t, f);
+    csa(e, ea, eb)
 }
 
 /// Bit positions of each byte value, for writing the set bits of a word as indices.
@@ -236,6 +235,7 @@ pub fn panel_pass(m: &Matrix, j_lo: usize, j_hi: usize, tally: &mut PairTally) {
     let panel = transpose_panel(m, j_lo, j_hi);
     let z = u64x2(0, 0);
     let mut list = vec![0u32; cols + 24];
+    let blocks = (j_hi - j_lo).div_ceil(LANES);
     for i in 0..j_hi.saturating_sub(1) {
         let row = m.row_words(i);
         let neg = m.row_negatives(i);
@@ -243,7 +243,6 @@ pub fn panel_pass(m: &Matrix, j_lo: usize, j_hi: usize, tally: &mut PairTally) {
         let len = columns_of(row, cols, flip, &mut list);
         // Blocks with a lane j > i.
         let b0 = (i + 1).saturating_sub(j_lo) / LANES;
-        let blocks = (j_hi - j_lo).div_ceil(LANES);
         let mut low = [[z; 4]; BLOCKS];
         let mut high = [[z; 4]; BLOCKS];
         let mut sixteens = [[z; 16]; BLOCKS];
@@ -311,12 +310,10 @@ pub fn panel_pass(m: &Matrix, j_lo: usize, j_hi: usize, tally: &mut PairTally) {
                     while w != 0 {
                         let j = base + h * 64 + w.trailing_zeros() as usize;
                         w &= w - 1;
-                        let pc = row
-                            .iter()
-                            .zip(m.row_words(j))
-                            .map(|(a, b)| (a ^ b).count_ones())
-                            .sum();
-                        check_pair(m, i, j, pc, tally);
+                        let dot = m.row_dot(i, j);
+                        if dot != 0 {
+                            tally.record(i, j, dot);
+                        }
                     }
                 }
             }
