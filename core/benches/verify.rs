@@ -8,7 +8,8 @@
 //!   the fraction of its bound it reaches (see `bound_secs`);
 //! - the parts of the whole process in this process: reading and parsing the file, the check,
 //!   the id (SHA-256 of the canonical text), the properties;
-//! - the whole process: wall time of `hadamard verify --json FILE` (the release binary, from
+//! - the whole process: wall time of `hadamard verify --json FILE` with the best kernel and
+//!   with `--kernel avx2-sliced` (the release binary, from
 //!   `HADAMARD_BIN` or `target/release/hadamard`; build it first), start to exit, alternated
 //!   with runs of numpy's check of the same file, medians of `--reps` (5) each, and the ratio.
 //!
@@ -159,10 +160,10 @@ print(json.dumps({"secs": sorted(ts)[len(ts) // 2], "blas": blas}))
 
 /// Wall time of one `hadamard verify --json path`, start to exit; None if it did not say
 /// Hadamard.
-fn whole_process(bin: &Path, path: &Path) -> Option<f64> {
+fn whole_process(bin: &Path, path: &Path, kernel: &str) -> Option<f64> {
     let t = Instant::now();
     let out = Command::new(bin)
-        .args(["verify", "--json"])
+        .args(["verify", "--json", "--kernel", kernel])
         .arg(path)
         .output()
         .ok()?;
@@ -289,38 +290,58 @@ fn main() {
         if !native {
             continue;
         }
-        // The whole process and numpy, alternated.
-        let (mut ours, mut theirs, mut blas) = (Vec::new(), Vec::new(), None);
+        // The whole process (with the best kernel, and with AVX2's where that is not the best)
+        // and numpy, alternated.
+        let mut kernels = vec!["best"];
+        if Kernel::Avx2Sliced.is_available() && best != Kernel::Avx2Sliced {
+            kernels.push("avx2-sliced");
+        }
+        let mut ours = vec![Vec::new(); kernels.len()];
+        let (mut theirs, mut blas) = (Vec::new(), None);
         for _ in 0..reps {
-            if let Some(t) = whole_process(&bin, &path) {
-                ours.push(t);
+            for (k, kernel) in kernels.iter().enumerate() {
+                if let Some(t) = whole_process(&bin, &path, kernel) {
+                    ours[k].push(t);
+                }
             }
             if let Some((t, b)) = numpy(&path, 1) {
                 theirs.push(t);
                 blas = Some(b);
             }
         }
-        let ours = (!ours.is_empty()).then(|| median(ours));
         let theirs = (!theirs.is_empty()).then(|| median(theirs));
-        match (ours, theirs) {
-            (Some(o), Some(t)) => println!(
-                "whole process: hadamard verify {:.1} ms, numpy {:.1} ms ({}): {:.1}×",
-                o * 1e3,
+        match &theirs {
+            Some(t) => println!(
+                "numpy float64 H @ H.T == nI: {:.1} ms ({})",
                 t * 1e3,
-                blas.unwrap_or_default(),
-                t / o
+                blas.unwrap_or_default()
             ),
-            (o, t) => println!(
-                "whole process: hadamard verify {}, numpy {}",
-                o.map_or(
-                    format!("not run ({} missing?)", bin.display()),
-                    |o| format!("{:.1} ms", o * 1e3)
+            None => println!("numpy: not run (no python3 or numpy)"),
+        }
+        for (kernel, times) in kernels.iter().zip(ours) {
+            let label = if *kernel == "best" {
+                format!("best = {}", best.name())
+            } else {
+                kernel.to_string()
+            };
+            match (times.is_empty(), &theirs) {
+                (true, _) => println!(
+                    "whole process ({label}): not run ({} missing? build it first)",
+                    bin.display()
                 ),
-                t.map_or("not run (no python3/numpy)".into(), |t| format!(
-                    "{:.1} ms",
-                    t * 1e3
-                ))
-            ),
+                (false, Some(t)) => {
+                    let o = median(times);
+                    println!(
+                        "whole process `hadamard verify --kernel {kernel}` {:.1} ms: numpy / ours = {:.1}×",
+                        o * 1e3,
+                        t / o
+                    )
+                }
+                (false, None) => println!(
+                    "whole process `hadamard verify --kernel {kernel}` {:.1} ms",
+                    median(times) * 1e3
+                ),
+            }
         }
         println!("load average: {}", load_average());
         let _ = std::fs::remove_file(&path);
