@@ -13,8 +13,9 @@
 #   TT(12) classes (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21, 2013) [recalled, as
 #   cited in constructions.md §4, core/src/search/aperiodic.rs and core/benches/search.rs].
 # - Williamson quadruples of order 33 (classes) in 4 shards with checkpoints in the shared run
-#   folder. Shard 1 is requeued mid-run (scontrol requeue): it must resume from its checkpoint,
-#   and the merge job (afterok) must run by itself and give the 5 classes of the unsharded run,
+#   folder. Shard 1 is requeued mid-run (scontrol requeue), and shard 2 gets the USR1 that
+#   warns of its time limit (the job script then requeues itself): both must resume from their
+#   checkpoints, and the merge job (afterok) must run by itself and give the 5 classes of the unsharded run,
 #   the published count for m = 33 (Holzmann, Kharaghani and Tayfeh-Rezaie, Des. Codes
 #   Cryptogr. 46, 2008) [recalled, constructions.md §3, as in core/benches/search.rs].
 #
@@ -205,6 +206,17 @@ for _ in $(seq 150); do
 done
 note "Williamson m=33: shard 1 requeued: $(squeue -h -j "${w_array}_1" -o '%T, begins %S')"
 scontrol update JobId="${w_array}_1" StartTime=now
+# Shard 2 is told its time is running out, as --signal=B:USR1@300 does: USR1 to the batch
+# shell only. The job script must stop the search at the end of its batch and requeue itself.
+wait_mid_run "$wi/checkpoint-2.json" 60
+scancel --batch --signal=USR1 "${w_array}_2"
+for _ in $(seq 150); do
+  [ "$(job_state "${w_array}_2")" = PENDING ] && break
+  sleep 0.2
+done
+[ "$(job_state "${w_array}_2")" = PENDING ] || fail "Williamson shard 2 did not requeue itself after USR1"
+note "Williamson m=33: shard 2 requeued itself"
+scontrol update JobId="${w_array}_2" StartTime=now
 
 wait_gone "$tt_array" 120
 note "TT(12): the array job is done"
@@ -240,6 +252,8 @@ wait_gone "$w_merge" 60
 note "Williamson m=33: the array and merge jobs are done"
 grep -q 'restart 1' "$wi/shard-1.log" || fail "Williamson shard 1 was not requeued"
 grep -q 'resuming from .*checkpoint-1.json' "$wi/shard-1.log" || fail "the requeued Williamson shard 1 did not resume from its checkpoint"
+grep -q 'restart 1' "$wi/shard-2.log" || fail "Williamson shard 2 was not requeued"
+grep -q 'resuming from .*checkpoint-2.json' "$wi/shard-2.log" || fail "Williamson shard 2 did not resume from its checkpoint after USR1"
 [ -s "$wi/merged.txt" ] || fail "the Williamson merge job did not run after the requeued shard"
 [ "$(count "$wi/merged.txt")" = 5 ] || fail "merged Williamson m = 33: $(count "$wi/merged.txt") classes, not 5"
 diff <(data "$wi/merged.txt") <(data "$tmp/w33-whole.txt") > /dev/null ||

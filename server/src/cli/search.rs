@@ -773,3 +773,64 @@ fn print_results(lines: &[String], json: bool) {
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn output(name: &str, search: &str, shard: &str, finished: bool) -> ShardOutput {
+        ShardOutput {
+            path: PathBuf::from(name),
+            lines: Vec::new(),
+            search: Some(search.to_string()),
+            shard: shard.parse().ok(),
+            finished: Some((finished, if finished { 10 } else { 3 }, 10)),
+            mixed: false,
+        }
+    }
+
+    #[test]
+    fn the_provenance_names_the_command_and_the_shard() {
+        let line = "turyn n=2 a=++ b=+- c=++ d=+ | found by hadamard search turyn --n 2 (shard 1/3); 2026-12-03";
+        assert_eq!(
+            provenance_shard(line),
+            Some((
+                "hadamard search turyn --n 2".to_string(),
+                Shard { index: 1, count: 3 }
+            ))
+        );
+        assert_eq!(provenance_shard("turyn n=2 a=++ b=+- c=++ d=+"), None);
+    }
+
+    #[test]
+    fn merge_accepts_only_every_shard_once_and_finished() {
+        let s = "turyn n=12 mode=classes";
+        let whole = |extra: Vec<ShardOutput>| {
+            let mut v: Vec<ShardOutput> = (0..3)
+                .map(|i| output(&format!("s{i}"), s, &format!("{i}/3"), true))
+                .collect();
+            v.extend(extra);
+            v
+        };
+        assert!(check_complete(&whole(vec![])).is_empty());
+        // Lost: shard 2/3 missing.
+        let lost = check_complete(&whole(vec![])[..2]);
+        assert_eq!(lost.len(), 1);
+        assert!(lost[0].contains("2/3 missing"), "{lost:?}");
+        // Duplicated.
+        let twice = check_complete(&whole(vec![output("again", s, "1/3", true)]));
+        assert!(twice.iter().any(|p| p.contains("shard 1/3 is given twice")));
+        // Unfinished, another search, another shard count, unidentified.
+        let mut v = whole(vec![]);
+        v[1] = output("s1", s, "1/3", false);
+        assert!(check_complete(&v)[0].contains("unfinished"));
+        let other = check_complete(&whole(vec![output("w", "williamson m=5", "0/3", true)]));
+        assert!(other[0].contains("is from `williamson m=5`"));
+        let k = check_complete(&whole(vec![output("k", s, "3/4", true)]));
+        assert!(k[0].contains("different shard counts"));
+        let mut anon = output("anon", s, "0/3", true);
+        anon.search = None;
+        assert!(check_complete(&[anon])[0].contains("does not say"));
+        assert!(!check_complete(&[]).is_empty());
+    }
+}
