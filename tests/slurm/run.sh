@@ -62,7 +62,7 @@ cleanup() {
       [ -f "$log" ] && { echo "--- $log"; tail -n 30 "$log"; }
     done
   fi
-  [ -n "${SLURM_TEST_KEEP:-}" ] && echo "kept $tmp" || rm -rf "$tmp"
+  if [ -n "${SLURM_TEST_KEEP:-}" ]; then echo "kept $tmp"; else rm -rf "$tmp"; fi
   exit "$status"
 }
 trap cleanup EXIT
@@ -135,7 +135,7 @@ note "cluster up in $((SECONDS - started)) s"
 # Nothing listens outside loopback (the namespace has no other address, and the daemons bind
 # to 127.0.0.1 rather than to every address).
 listening=$(ss -Hltun | awk '{print $5}')
-echo "listening: $(echo $listening)"
+echo "listening: $(echo "$listening" | tr '\n' ' ')"
 [ -n "$listening" ] || fail "ss shows no listening socket"
 echo "$listening" | grep -Ev '^(127\.[0-9.]+|\[::1\]|::1):[0-9]+$' &&
   fail "a daemon listens on a non-loopback address"
