@@ -26,7 +26,7 @@ pub struct EquivArgs {
 pub fn run(args: EquivArgs) -> ExitCode {
     let input = |p: &str| InputArgs {
         path: p.to_owned(),
-        format: None,
+        input_format: None,
         bits_minus: "1".into(),
         max_order: 1 << 15,
     };
