@@ -1,43 +1,24 @@
 //! Wall-clock timestamps for records, as RFC 3339 UTC text (`2026-12-01T09:30:00.123Z`).
 
-use std::time::{SystemTime, UNIX_EPOCH};
+use std::time::{Duration, SystemTime, UNIX_EPOCH};
 
 /// Now, as RFC 3339 UTC with milliseconds.
 pub fn now_rfc3339() -> String {
-    let d = SystemTime::now()
-        .duration_since(UNIX_EPOCH)
-        .unwrap_or_default();
-    format_unix_millis(d.as_millis() as i64)
+    humantime::format_rfc3339_millis(SystemTime::now()).to_string()
 }
 
-/// Formats milliseconds since the Unix epoch as RFC 3339 UTC.
+/// Today's date in UTC, `YYYY-MM-DD` (for provenance lines).
+pub fn today() -> String {
+    let mut s = humantime::format_rfc3339_seconds(SystemTime::now()).to_string();
+    s.truncate(10);
+    s
+}
+
+/// Formats milliseconds since the Unix epoch as RFC 3339 UTC (instants before 1970 are not
+/// records this program makes, and come out as the epoch).
 pub fn format_unix_millis(ms: i64) -> String {
-    let secs = ms.div_euclid(1000);
-    let millis = ms.rem_euclid(1000);
-    let days = secs.div_euclid(86_400);
-    let rem = secs.rem_euclid(86_400);
-    let (y, m, d) = civil_from_days(days);
-    format!(
-        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}.{millis:03}Z",
-        rem / 3600,
-        rem / 60 % 60,
-        rem % 60
-    )
-}
-
-/// The proleptic Gregorian date of a day count from 1970-01-01 (Howard Hinnant's
-/// `civil_from_days`, from "chrono-Compatible Low-Level Date Algorithms").
-fn civil_from_days(z: i64) -> (i64, u32, u32) {
-    let z = z + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z.rem_euclid(146_097);
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let y = yoe + era * 400;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
-    (if m <= 2 { y + 1 } else { y }, m, d)
+    let t = UNIX_EPOCH + Duration::from_millis(u64::try_from(ms).unwrap_or(0));
+    humantime::format_rfc3339_millis(t).to_string()
 }
 
 #[cfg(test)]
@@ -56,5 +37,12 @@ mod tests {
             format_unix_millis(1_798_761_599_000),
             "2026-12-31T23:59:59.000Z"
         );
+    }
+
+    #[test]
+    fn today_is_a_date() {
+        let t = super::today();
+        assert_eq!(t.len(), 10);
+        assert_eq!(&super::now_rfc3339()[..10], t);
     }
 }
