@@ -1,10 +1,14 @@
 //! Wall-clock timestamps for records, as RFC 3339 UTC text (`2026-12-01T09:30:00.123Z`).
 
-use std::time::{Duration, SystemTime, UNIX_EPOCH};
+use std::time::SystemTime;
 
 /// Now, as RFC 3339 UTC with milliseconds.
 pub fn now_rfc3339() -> String {
-    humantime::format_rfc3339_millis(SystemTime::now()).to_string()
+    rfc3339_millis(SystemTime::now())
+}
+
+fn rfc3339_millis(t: SystemTime) -> String {
+    humantime::format_rfc3339_millis(t).to_string()
 }
 
 /// Today's date in UTC, `YYYY-MM-DD` (for provenance lines).
@@ -14,16 +18,14 @@ pub fn today() -> String {
     s
 }
 
-/// Formats milliseconds since the Unix epoch as RFC 3339 UTC (instants before 1970 are not
-/// records this program makes, and come out as the epoch).
-pub fn format_unix_millis(ms: i64) -> String {
-    let t = UNIX_EPOCH + Duration::from_millis(u64::try_from(ms).unwrap_or(0));
-    humantime::format_rfc3339_millis(t).to_string()
-}
-
 #[cfg(test)]
 mod tests {
-    use super::format_unix_millis;
+    use super::rfc3339_millis;
+    use std::time::{Duration, UNIX_EPOCH};
+
+    fn format_unix_millis(ms: u64) -> String {
+        rfc3339_millis(UNIX_EPOCH + Duration::from_millis(ms))
+    }
 
     #[test]
     fn known_instants() {

@@ -339,3 +339,12 @@ def test_order_32_sylvester_and_paley(tmp_path):
     # A budget too small to decide says so.
     r = run("equiv", "--json", "--budget", "0", s, write_pm(tmp_path / "scr2.txt", scrambled(load_pm(s), rng)), check=False)
     assert r.returncode == 3 and json.loads(r.stdout)["verdict"] == "undecided"
+
+
+def test_different_orders_are_inequivalent_in_json_too(tmp_path):
+    # Equivalence preserves the order (row and column permutations and negations; common practice).
+    a, b = built(tmp_path, 12), built(tmp_path, 16)
+    r = run("equiv", "--json", a, b, check=False)
+    assert r.returncode == 1
+    out = json.loads(r.stdout)
+    assert out["verdict"] == "inequivalent" and (out["a_order"], out["b_order"]) == (12, 16)
