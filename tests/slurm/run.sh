@@ -42,6 +42,7 @@ pids=()
 note() { echo "[$((SECONDS - started)) s] $*"; }
 fail() {
   echo "FAIL: $*" >&2
+  echo "0 passed, 1 failed"
   exit 1
 }
 cleanup() {
@@ -260,3 +261,4 @@ diff <(data "$wi/merged.txt") <(data "$tmp/w33-whole.txt") > /dev/null ||
   fail "the merged Williamson classes differ from the unsharded run's"
 note "Williamson m=33: 5 classes merged from 4 shards, as the unsharded run"
 echo "slurm test passed in $((SECONDS - started)) s"
+echo "1 passed, 0 failed"
