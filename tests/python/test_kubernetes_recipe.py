@@ -5,7 +5,7 @@ ships the published OpenAPI schemas of each Kubernetes release, so it runs offli
 mode (unknown fields are errors). Then the pods' own shell scripts are run here, outside any
 cluster, once per JOB_COMPLETION_INDEX and then the merge, on a small search whose answer is
 published: TT(8) has 6 classes (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21, 2013)
-[recalled, constructions.md §4]. So the commands in the manifest are the ones that work.
+[docs/references.md#r8-ttn-counts-and-existence: recalled]. So the commands in the manifest are the ones that work.
 """
 
 import copy

@@ -10,14 +10,15 @@
 #   after the array must then be cancelled too, and `hadamard search merge` must refuse the
 #   three shards left; shard 1 is resubmitted (ARRAY=1), resumes from its checkpoint, and the
 #   new merge must give the 127 classes of the unsharded run. 127 is the published number of
-#   TT(12) classes (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21, 2013) [recalled, as
-#   cited in constructions.md §4, core/src/search/aperiodic.rs and core/benches/search.rs].
+#   TT(12) classes (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21, 2013)
+#   [docs/references.md#r8-ttn-counts-and-existence: recalled, and the project's exhaustive
+#   search agrees].
 # - Williamson quadruples of order 33 (classes) in 4 shards with checkpoints in the shared run
 #   folder. Shard 1 is requeued mid-run (scontrol requeue), and shard 2 gets the USR1 that
 #   warns of its time limit (the job script then requeues itself): both must resume from their
-#   checkpoints, and the merge job (afterok) must run by itself and give the 5 classes of the unsharded run,
-#   the published count for m = 33 (Holzmann, Kharaghani and Tayfeh-Rezaie, Des. Codes
-#   Cryptogr. 46, 2008) [recalled, constructions.md §3, as in core/benches/search.rs].
+#   checkpoints, and the merge job (afterok) must run by itself and give the 5 classes of the
+#   unsharded run, the published count for m = 33 (Holzmann, Kharaghani and Tayfeh-Rezaie,
+#   Des. Codes Cryptogr. 46, 2008) [docs/references.md#r7-williamson-orders: recalled].
 #
 # `search merge` must also refuse a duplicated shard. Needs root (namespaces, daemons) and the
 # packages tests/setup.sh installs; HADAMARD_BIN names the binary (default target/release).
