@@ -87,7 +87,7 @@ def test_the_pod_scripts_run_the_search_and_the_merge(tmp_path):
     run_dir = tmp_path / "run"
     shard = search_job()["spec"]["template"]["spec"]["containers"][0]
     merge = docs("merge-job.yaml")[0]["spec"]["template"]["spec"]["containers"][0]
-    small = {"SEARCH": "turyn --n 8 --classes --batch 4", "RUN_DIR": str(run_dir)}
+    small = {"SEARCH": "turyn --n 8 --classes --batch 512", "RUN_DIR": str(run_dir)}
     shards = int(env(shard)["SHARDS"])
 
     # The merge applied too early (one shard still missing) fails and writes nothing.
