@@ -188,7 +188,7 @@ wi=$tmp/run/w33
 note "unsharded runs done at $((SECONDS - started)) s"
 
 # --- TT(12): a shard is cancelled and resubmitted ------------------------------------------
-read -r tt_array tt_merge <<< "$("$submit" "$tt" 4 turyn --n 12 --classes --batch 16)"
+read -r tt_array tt_merge <<< "$("$submit" "$tt" 4 turyn --n 12 --classes --batch 128)"
 [ -n "$tt_merge" ] || fail "contrib/slurm/submit.sh did not queue the jobs"
 note "TT(12): array job $tt_array, merge job $tt_merge"
 wait_mid_run "$tt/checkpoint-1.json" 60
@@ -238,7 +238,7 @@ if "$hadamard" search merge "$tt"/shard-*.json "$tmp/shard-0-again.json" > /dev/
 fi
 grep -q 'shard 0/4 is given twice' "$tmp/refused.txt" || fail "merge did not name the duplicated shard: $(cat "$tmp/refused.txt")"
 
-read -r tt_array2 tt_merge2 <<< "$(ARRAY=1 "$submit" "$tt" 4 turyn --n 12 --classes --batch 16)"
+read -r tt_array2 tt_merge2 <<< "$(ARRAY=1 "$submit" "$tt" 4 turyn --n 12 --classes --batch 128)"
 [ -n "$tt_merge2" ] || fail "contrib/slurm/submit.sh did not queue the jobs"
 note "TT(12): shard 1 resubmitted as job $tt_array2, merge job $tt_merge2"
 wait_gone "$tt_merge2" 120
