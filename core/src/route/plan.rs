@@ -1008,7 +1008,7 @@ fn method_words(m: Method) -> &'static str {
         Method::TSequences => "T-sequences in the Goethals–Seidel array",
         Method::CooperWallis => "the Cooper–Wallis construction",
         Method::SkewDoubling => "skew doubling",
-        Method::Miyamoto => "Miyamoto's 4q theorem (this program's array)",
+        Method::Miyamoto => "Miyamoto's 4q theorem",
         _ => "a published construction",
     }
 }
