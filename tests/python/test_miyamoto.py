@@ -1,8 +1,8 @@
 """The 4q construction under Miyamoto's hypotheses, checked by numpy.
 
-Source: M. Miyamoto, "A construction of Hadamard matrices", J. Combin. Theory Ser. A 57 (1991)
-86–108: a prime power q ≡ 1 (mod 4) and ANY Hadamard matrix K of order q − 1 give a Hadamard
-matrix of order 4q. The array is the program's own (core/src/construct/miyamoto.rs); numpy is the
+Source: references.md#r13-miyamotos-4q-theorem, M. Miyamoto, "A construction of Hadamard
+matrices", J. Combin. Theory Ser. A 57 (1991) 86–108: a prime power q ≡ 1 (mod 4) and ANY
+Hadamard matrix K of order q − 1 give a Hadamard matrix of order 4q. The array is the program's own (core/src/construct/miyamoto.rs); numpy is the
 outside check: H @ H.T == 4q·I in integers, on matrices built by the CLI (fields GF(25), GF(49),
 GF(125) included, where χ is not a Legendre symbol) and on K scrambled here by seeded random
 row and column permutations and negations, which keeps K Hadamard, so the theorem must still hold.

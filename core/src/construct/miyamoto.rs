@@ -4,7 +4,7 @@
 //! (1991) 86–108): if q ≡ 1 (mod 4) is a prime power and a Hadamard matrix of order q − 1
 //! exists, then a Hadamard matrix of order 4q exists. Yamada's first theorem (q ≡ 1 mod 8 and
 //! order (q − 1)/2 give 4q; M. Yamada, J. Austral. Math. Soc. A 46 (1989)) is the case
-//! K = H₂ ⊗ H_{(q−1)/2}.
+//! K = H₂ ⊗ H_{(q−1)/2}. See references.md#r13-miyamotos-4q-theorem.
 //!
 //! The theorem and its hypotheses are Miyamoto's. **The array below is this program's own**, not
 //! Miyamoto's: it has the same hypotheses, works with *any* Hadamard K of order q − 1, and uses

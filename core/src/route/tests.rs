@@ -416,8 +416,8 @@ fn recipes_carry_their_sequences_and_refuse_tampered_ones() {
 
 #[test]
 fn miyamoto_4q_orders_are_built_recursively() {
-    // Miyamoto, J. Combin. Theory A 57 (1991): a prime power q ≡ 1 (mod 4) and an order q − 1
-    // give 4q. Issue 12 lists the orders ≤ 1208 it adds with what this program builds: 4q for
+    // references.md#r13-miyamotos-4q-theorem (Miyamoto, J. Combin. Theory A 57, 1991): a prime
+    // power q ≡ 1 (mod 4) and an order q − 1 give 4q. It adds, up to 1208, 4q for
     // q = 89, 109, 113, 149, 193, 233, 241, 277, and their doubles 712 = 2·356, 1192 = 2·596.
     let mut p = Planner::new();
     for n in [356u64, 436, 452, 596, 772, 932, 964, 1108] {
@@ -458,9 +458,9 @@ fn miyamoto_4q_orders_are_built_recursively() {
 
 #[test]
 fn yamada_first_theorem_is_miyamoto_with_a_doubled_k() {
-    // Yamada, J. Austral. Math. Soc. A 46 (1989), first theorem: q ≡ 1 (mod 8) and order
-    // (q − 1)/2 give 4q; here as Miyamoto's 4q with K = H₂ ⊗ H_{(q−1)/2}. q = 17: K = H₂ ⊗ H₈,
-    // which the planner lists beside the direct K = H₁₆.
+    // references.md#r13-miyamotos-4q-theorem: Yamada's first theorem (J. Austral. Math. Soc. A
+    // 46, 1989), q ≡ 1 (mod 8) and order (q − 1)/2 give 4q, here as Miyamoto's 4q with
+    // K = H₂ ⊗ H_{(q−1)/2}. q = 17: K = H₂ ⊗ H₈, listed beside the direct K = H₁₆.
     let info = order_info(68);
     let r = info
         .routes
