@@ -131,7 +131,7 @@ struct Common {
     #[arg(long)]
     checkpoint: Option<PathBuf>,
     /// Units per batch (checkpoint and progress granularity; part of a limited run's identity).
-    #[arg(long, default_value_t = 8)]
+    #[arg(long, default_value_t = hadamard_core::search::DEFAULT_BATCH)]
     batch: usize,
     /// Print one JSON object on stdout instead of seed lines.
     #[arg(long)]
