@@ -25,9 +25,15 @@ pub struct VerifyArgs {
     kernel: String,
     #[command(flatten)]
     input: InputArgs,
+    /// The same as --input-format: force the input format (pm, int (csv), bits, json, npy).
+    #[arg(long, value_name = "F", conflicts_with = "input_format")]
+    format: Option<String>,
 }
 
-pub fn run(args: VerifyArgs) -> ExitCode {
+pub fn run(mut args: VerifyArgs) -> ExitCode {
+    if let Some(f) = args.format.take() {
+        args.input.input_format = Some(f);
+    }
     let kernel = match verify::Kernel::from_name(&args.kernel) {
         Some(k) if k.is_available() => k,
         Some(k) => {
