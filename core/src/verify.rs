@@ -165,7 +165,7 @@ pub fn is_hadamard_with(m: &Matrix, kernel: Kernel) -> bool {
 
 /// True when n is 1, 2 or a multiple of 4: the only orders a Hadamard matrix can have.
 pub fn order_possible(n: usize) -> bool {
-    n == 1 || n == 2 || (n > 0 && n % 4 == 0)
+    n == 1 || n == 2 || (n > 0 && n.is_multiple_of(4))
 }
 
 /// The full report for `m`, listing at most [`DEFAULT_PAIR_CAP`] failing pairs.
