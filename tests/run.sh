@@ -22,6 +22,7 @@ export HADAMARD_BIN="$PWD/target/release/hadamard"
 if [ -d tests/python ]; then
   step "cross-checks (pytest: numpy, scipy, galois, sympy)" python3 -m pytest -q tests/python
 fi
+step "Python package (abi3 wheel in a fresh venv, pytest)" bash tests/python-package.sh
 if [ -f tests/browser/run.mjs ]; then
   step "browser tests (headless Chromium)" node tests/browser/run.mjs
 fi
