@@ -331,6 +331,7 @@ impl Real for f64 {
 /// In place: x ← H_{2^a}·x, Sylvester's matrix in natural order, by the fast Walsh–Hadamard
 /// transform (a butterflies of length-2 sums and differences over strides 1, 2, 4, …; the
 /// factorisation H_{2^a} = ∏ (I ⊗ H₂ ⊗ I) is common practice). x.len() is a power of two.
+#[inline(always)]
 fn fwht<T: Real>(x: &mut [T]) {
     let n = x.len();
     // Strides 1 and 2 together, as a radix-4 pass over blocks of four.
@@ -359,9 +360,16 @@ fn fwht<T: Real>(x: &mut [T]) {
     }
 }
 
+/// Columns of the row mix handled together, so the sums stay in registers: 64 f32 sums are
+/// eight AVX2 registers. (Measured single-threaded at d = 14336: 32 was slower for f32 and no
+/// faster for f64.)
+const MIX: usize = 64;
+
 /// out ← scale·(H_m ⊗ H_p)·x for one vector of length d = m·p, p = 2^a. Read x as an m×p
 /// matrix X (row-major); then (H_m ⊗ H_p)·vec(X) = vec(H_m·X·H_pᵀ): transform every row of X,
-/// then mix the rows with the ±1 entries of H_m. `z` is scratch of length d.
+/// then mix the rows with the ±1 entries of H_m, MIX columns at a time so that the sums stay in
+/// registers while the m rows stream from L1. `z` is scratch of length d.
+#[inline(always)]
 fn rotate_one<T: Real>(x: &[T], out: &mut [T], z: &mut [T], p: &Plan, scale: T) {
     let (m, len) = (p.m, 1usize << p.a);
     if m == 1 {
@@ -385,25 +393,42 @@ fn rotate_one<T: Real>(x: &[T], out: &mut [T], z: &mut [T], p: &Plan, scale: T) 
         for row in z.chunks_exact_mut(len) {
             fwht(row);
         }
-        for (i, y) in out.chunks_exact_mut(len).enumerate() {
-            let signs = &p.signs[i * m..(i + 1) * m];
-            let z0 = &z[..len];
-            if signs[0] > 0 {
-                y.copy_from_slice(z0);
-            } else {
-                for (o, &v) in y.iter_mut().zip(z0) {
-                    *o = -v;
+        if len % MIX == 0 {
+            for c0 in (0..len).step_by(MIX) {
+                for i in 0..m {
+                    let signs = &p.signs[i * m..(i + 1) * m];
+                    let mut acc = [T::ZERO; MIX];
+                    for (j, &s) in signs.iter().enumerate() {
+                        let zj: &[T; MIX] = z[j * len + c0..j * len + c0 + MIX]
+                            .try_into()
+                            .expect("MIX entries");
+                        if s > 0 {
+                            for k in 0..MIX {
+                                acc[k] += zj[k];
+                            }
+                        } else {
+                            for k in 0..MIX {
+                                acc[k] -= zj[k];
+                            }
+                        }
+                    }
+                    out[i * len + c0..i * len + c0 + MIX].copy_from_slice(&acc);
                 }
             }
-            for (j, &s) in signs.iter().enumerate().skip(1) {
-                let zj = &z[j * len..(j + 1) * len];
-                if s > 0 {
-                    for (o, &v) in y.iter_mut().zip(zj) {
-                        *o += v;
-                    }
-                } else {
-                    for (o, &v) in y.iter_mut().zip(zj) {
-                        *o -= v;
+        } else {
+            for (i, y) in out.chunks_exact_mut(len).enumerate() {
+                let signs = &p.signs[i * m..(i + 1) * m];
+                y.fill(T::ZERO);
+                for (j, &s) in signs.iter().enumerate() {
+                    let zj = &z[j * len..(j + 1) * len];
+                    if s > 0 {
+                        for (o, &v) in y.iter_mut().zip(zj) {
+                            *o += v;
+                        }
+                    } else {
+                        for (o, &v) in y.iter_mut().zip(zj) {
+                            *o -= v;
+                        }
                     }
                 }
             }
@@ -414,6 +439,23 @@ fn rotate_one<T: Real>(x: &[T], out: &mut [T], z: &mut [T], p: &Plan, scale: T) 
             *o = *o * scale;
         }
     }
+}
+
+/// [`rotate_one`] compiled for AVX2 (eight f32 or four f64 lanes instead of SSE2's four or
+/// two), chosen at run time.
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn rotate_one_avx2<T: Real>(x: &[T], out: &mut [T], z: &mut [T], p: &Plan, scale: T) {
+    rotate_one(x, out, z, p, scale)
+}
+
+fn rotate_vector<T: Real>(x: &[T], out: &mut [T], z: &mut [T], p: &Plan, scale: T) {
+    #[cfg(target_arch = "x86_64")]
+    if std::arch::is_x86_feature_detected!("avx2") {
+        // SAFETY: the CPU has AVX2, checked on the line above.
+        return unsafe { rotate_one_avx2(x, out, z, p, scale) };
+    }
+    rotate_one(x, out, z, p, scale)
 }
 
 /// Below this many entries in a batch the rotation stays on the calling thread.
@@ -428,14 +470,14 @@ fn rotate_batch<T: Real>(x: &[T], out: &mut [T], d: usize, p: &Plan, normalized:
     if x.len() < PARALLEL_ENTRIES || x.len() == d {
         let mut z = vec![T::ZERO; d];
         for (xi, oi) in x.chunks_exact(d).zip(out.chunks_exact_mut(d)) {
-            rotate_one(xi, oi, &mut z, p, scale);
+            rotate_vector(xi, oi, &mut z, p, scale);
         }
     } else {
         x.par_chunks_exact(d)
             .zip(out.par_chunks_exact_mut(d))
             .for_each_init(
                 || vec![T::ZERO; d],
-                |z, (xi, oi)| rotate_one(xi, oi, z, p, scale),
+                |z, (xi, oi)| rotate_vector(xi, oi, z, p, scale),
             );
     }
 }

@@ -59,8 +59,8 @@ def test_the_id_is_the_one_hadamard_build_writes():
 @pytest.mark.parametrize(
     "n, status",
     [
-        (6, "impossible"),  # not 1, 2 or a multiple of 4 (common practice)
-        (668, "open"),  # the smallest order with no known Hadamard matrix (common practice, from memory)
+        (6, "impossible"),  # not 1, 2 or a multiple of 4 (references.md#r1-impossible-orders)
+        (668, "open"),  # the smallest open order (references.md#r3-open-orders)
     ],
 )
 def test_an_order_that_cannot_be_built_raises_with_its_status(n, status):

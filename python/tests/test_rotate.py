@@ -58,6 +58,12 @@ def test_powers_of_two_are_scipys_sylvester_matrix():
         assert np.allclose(hr.rotate(x, normalized=False), x @ scipy.linalg.hadamard(d).T)
 
 
+def test_model_dimensions_factor_as_published():
+    # 3584 = 128·28 and 1152 = 32·36 (references.md#r11-dimensions-users-ask-for).
+    assert (hr.rotation_plan(3584)["power_of_two"], hr.rotation_plan(3584)["dense"]) == (7, 28)
+    assert (hr.rotation_plan(1152)["power_of_two"], hr.rotation_plan(1152)["dense"]) == (5, 36)
+
+
 @pytest.mark.parametrize("d", [12, 172, 3584])
 def test_rotation_matrix_and_id_are_the_kronecker_product(d):
     h = hr.rotation_matrix(d)
@@ -95,7 +101,7 @@ def test_rotate_errors():
     with pytest.raises(TypeError):
         hr.rotate(np.ones(12, dtype=np.int64))
     with pytest.raises(hr.RotationError) as e:
-        hr.rotate(np.ones(6))  # 6 = 2·3, and 3 is not a Hadamard order
+        hr.rotate(np.ones(6))  # 6 = 2·3, and 3 is not a Hadamard order (references.md#r1-impossible-orders)
     assert e.value.dimension == 6
     with pytest.raises(hr.RotationError):
-        hr.rotate(np.ones((2, 668)))  # 668 is open (common practice)
+        hr.rotate(np.ones((2, 668)))  # 668 is open (references.md#r3-open-orders)

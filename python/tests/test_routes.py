@@ -7,19 +7,20 @@ from conftest import cli_json, needs_cli
 
 
 def test_statuses_from_the_literature():
-    # Common practice: a Hadamard order is 1, 2 or a multiple of 4; 668 is the smallest order
-    # with no known Hadamard matrix, and 428 was settled by Kharaghani and Tayfeh-Rezaie,
-    # J. Combin. Des. 13 (2005) (both from memory).
+    # A Hadamard order is 1, 2 or a multiple of 4 (references.md#r1-impossible-orders); 668,
+    # 716, 892 and 1132 are the open orders up to 1208 and every other multiple of 4 there is
+    # known (references.md#r3-open-orders).
     assert hr.routes(10)["status"] == "impossible"
-    assert hr.routes(668)["status"] == "open"
+    for n in (668, 716, 892, 1132):
+        assert hr.routes(n)["status"] == "open"
     assert hr.routes(428)["status"] in ("known", "constructible")
-    # Paley's first construction gives order q + 1 for a prime q ≡ 3 mod 4 (Paley 1933): 12 from 11.
+    # Paley's first construction gives order q + 1 for a prime q ≡ 3 mod 4
+    # (references.md#r2-paley-and-kronecker-up-to-100): 12 from 11.
     assert any(r["method"] == "paley_one" and r["buildable"] for r in hr.routes(12)["routes"])
 
 
 def test_smallest_known_skips_the_open_order_668():
-    # 668 is open and 672 = 2^5·21 ... is known (672 = 4·168 with 168 = 8·21: a Kronecker
-    # product of orders 2^k and 84 = 4·21, 84 = 83 + 1 by Paley, common practice).
+    # 668 is open and 672 is known (references.md#r3-open-orders).
     r = hr.smallest_known(at_least=665)
     assert r["smallest_known"]["order"] == 672
     assert r["at_least"] == 665
@@ -35,7 +36,7 @@ def test_dimension_advice_factors_exactly():
         assert dense == sorted(dense)
     # 4096 = 2^12: Sylvester's matrix alone, no dense factor.
     assert hr.advise(dimension=4096)["options"][0]["dense"] == 1
-    # 6 is not a Hadamard order, nor a power of two times one.
+    # 6 is not a Hadamard order, nor a power of two times one (references.md#r1-impossible-orders).
     assert hr.advise(dimension=6)["options"] == []
 
 
