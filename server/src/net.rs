@@ -300,6 +300,14 @@ async fn refuse(mut stream: tokio::net::TcpStream, limit: usize) {
         body.len(),
         crate::app::CSP
     );
+    // Read what the client sent first (briefly), so that closing does not reset the
+    // connection under the answer.
+    let mut scratch = [0u8; 8192];
+    let _ = tokio::time::timeout(
+        Duration::from_millis(200),
+        tokio::io::AsyncReadExt::read(&mut stream, &mut scratch),
+    )
+    .await;
     let _ = tokio::time::timeout(Duration::from_secs(2), async {
         stream.write_all(head.as_bytes()).await?;
         stream.write_all(body.as_bytes()).await?;

@@ -67,11 +67,13 @@ pub async fn smallest_known(
             } else {
                 format!("none from {k} up to the search limit {limit}")
             };
-            Err(
+            let mut e =
                 ApiError::not_found(format!("no {what} order at least {k} was found: {why}"))
-                    .with("at_least", k)
-                    .with("searched_up_to", limit.max(k.saturating_sub(1))),
-            )
+                    .with("at_least", k);
+            if limit >= k {
+                e = e.with("searched_up_to", limit);
+            }
+            Err(e)
         }
     }
 }

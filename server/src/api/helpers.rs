@@ -317,3 +317,49 @@ pub fn stream_json<T: serde::Serialize + Send + 'static>(value: T) -> Response {
     )
         .into_response()
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A real SQLite file that cannot grow (`max_page_count`, SQLite's documented limit that
+    /// makes writes fail with SQLITE_FULL) and one opened read-only (SQLITE_READONLY): the
+    /// answers are 507 and 503 with a sentence, not a bare 500.
+    #[test]
+    fn full_and_read_only_disks_get_their_own_answers() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("t.sqlite3");
+        let c = rusqlite::Connection::open(&path).unwrap();
+        c.execute_batch("CREATE TABLE t (x BLOB); PRAGMA max_page_count = 3;")
+            .unwrap();
+        let full = c
+            .execute("INSERT INTO t VALUES (zeroblob(100000))", [])
+            .unwrap_err();
+        let e = ApiError::from(StoreError::Sqlite(full));
+        assert_eq!(e.status, StatusCode::INSUFFICIENT_STORAGE, "{:?}", e.body);
+        assert_eq!(e.body["kind"], "disk_full");
+        drop(c);
+        let ro = rusqlite::Connection::open_with_flags(
+            &path,
+            rusqlite::OpenFlags::SQLITE_OPEN_READ_ONLY,
+        )
+        .unwrap();
+        let denied = ro.execute("INSERT INTO t VALUES (1)", []).unwrap_err();
+        let e = ApiError::from(StoreError::Sqlite(denied));
+        assert_eq!(e.status, StatusCode::SERVICE_UNAVAILABLE, "{:?}", e.body);
+        assert_eq!(e.body["kind"], "read_only");
+        assert!(e.body["error"].as_str().unwrap().contains("read-only"));
+        // Other failures stay 500.
+        let e = ApiError::from(StoreError::Corrupt("x".into()));
+        assert_eq!(e.status, StatusCode::INTERNAL_SERVER_ERROR);
+        // The health probe's own file write: ENOSPC and EROFS (Linux errno values).
+        assert_eq!(
+            io_trouble(&std::io::Error::from_raw_os_error(28)),
+            Some(Trouble::Full)
+        );
+        assert_eq!(
+            io_trouble(&std::io::Error::from_raw_os_error(30)),
+            Some(Trouble::ReadOnly)
+        );
+    }
+}

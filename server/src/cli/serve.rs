@@ -61,7 +61,7 @@ pub struct ServeArgs {
     upload_buffer_mib: usize,
     /// The largest catalogue order an anonymous GET builds and stores; larger buildable
     /// orders are built for the one answer and not stored (`hadamard build` stores any).
-    #[arg(long, value_name = "N", default_value_t = 1024)]
+    #[arg(long, value_name = "N", default_value_t = 2048)]
     store_max_order: usize,
     /// Log one JSON object a line instead of text.
     #[arg(long)]
