@@ -349,3 +349,79 @@ fn every_api_error_is_json_with_the_security_headers() {
     assert!(d.header("cache-control").unwrap().contains("immutable"));
     assert_eq!(d.body.len(), 64 * 65);
 }
+
+#[test]
+fn audit_checks_what_is_served_names_each_failure_and_goes_on() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let db = dir.path().join("r.sqlite3");
+    let s = Server::start(&db, &[]);
+    let twelve = s.get("/api/orders/12/matrix").json()["id"]
+        .as_str()
+        .unwrap()
+        .to_owned();
+    let sixteen = s.get("/api/orders/16/matrix").json()["id"]
+        .as_str()
+        .unwrap()
+        .to_owned();
+    assert_eq!(s.stop(), Some(0));
+    // A clean catalogue passes.
+    let out = common::hadamard()
+        .args(["audit", "--json", "--db"])
+        .arg(&db)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stdout)
+    );
+    // Three faults: the entry of order 32 points at the order-12 matrix, a text field that
+    // is not UTF-8, and properties that are not the matrix's.
+    let c = rusqlite::Connection::open(&db).unwrap();
+    c.execute(
+        "INSERT INTO catalogue_entries (n, matrix_id, recipe_json, built_at) VALUES (32, ?1, '{\"order\": 32}', 'x')",
+        [&twelve],
+    )
+    .unwrap();
+    c.execute(
+        "UPDATE matrices SET kernel = CAST(x'ff' AS TEXT) WHERE id = ?1",
+        [&twelve],
+    )
+    .unwrap();
+    c.execute(
+        "UPDATE matrices SET properties_json = '{\"skew\": true}' WHERE id = ?1",
+        [&sixteen],
+    )
+    .unwrap();
+    drop(c);
+    let out = common::hadamard()
+        .args(["audit", "--json", "--db"])
+        .arg(&db)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let j: serde_json::Value = serde_json::from_slice(&out.stdout).expect("audit --json");
+    let failures = j["failures"].as_array().unwrap();
+    let find = |table: &str, id: &str, words: &str| {
+        failures.iter().any(|f| {
+            f["table"] == table
+                && f["id"] == id
+                && f["rowid"].as_i64().is_some()
+                && f["problem"].as_str().unwrap().contains(words)
+        })
+    };
+    assert!(
+        find(
+            "catalogue_entries",
+            &twelve,
+            "order 32 points at a matrix of order 12"
+        ),
+        "{j}"
+    );
+    assert!(find("matrices", &twelve, "UTF-8"), "{j}");
+    assert!(find("matrices", &sixteen, "properties"), "{j}");
+    assert_eq!(
+        j["checked"], 2,
+        "the audit went on after the first failure: {j}"
+    );
+}
