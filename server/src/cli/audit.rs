@@ -71,16 +71,12 @@ pub fn run(args: AuditArgs) -> ExitCode {
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         for f in &report.failures {
-            println!(
-                "FAILED {} row {}{}: {}",
-                f["table"].as_str().unwrap_or(""),
-                f["rowid"],
-                f["id"]
-                    .as_str()
-                    .map(|id| format!(" (id {id})"))
-                    .unwrap_or_default(),
-                f["problem"].as_str().unwrap_or("")
-            );
+            let table = f["table"].as_str().unwrap_or("");
+            let problem = f["problem"].as_str().unwrap_or("");
+            match f["id"].as_str() {
+                Some(id) => println!("FAILED {id} ({table} row {}): {problem}", f["rowid"]),
+                None => println!("FAILED {table} row {}: {problem}", f["rowid"]),
+            }
         }
         if !sqlite_ok {
             println!("SQLite integrity_check: {}", integrity.join("; "));
