@@ -90,6 +90,7 @@ if [ "$built" -eq 1 ]; then
   done
   [ -f tests/python/conftest.py ] &&
     suite "cross-checks (pytest: numpy, scipy, galois, sympy)" python3 -m pytest -q tests/python
+  suite "Python package (abi3 wheel in a fresh venv, pytest)" bash tests/python-package.sh
   suite "Slurm: sharded searches on a one-node cluster" bash tests/slurm/run.sh
   [ -f tests/browser/run.mjs ] &&
     suite "browser tests (headless Chromium)" node tests/browser/run.mjs

@@ -24,6 +24,12 @@ if ! python3 -c 'import numpy, scipy, galois, sympy, pytest' >/dev/null 2>&1; th
   python3 -m pip install -q --disable-pip-version-check numpy scipy galois sympy pytest
 fi
 
+# venv with pip, for the Python package's fresh virtual environment (tests/python-package.sh).
+if ! python3 -c 'import venv, ensurepip' >/dev/null 2>&1; then
+  apt-get update -qq
+  DEBIAN_FRONTEND=noninteractive apt-get install -y -qq --no-install-recommends python3-venv
+fi
+
 # playwright-core (no browser download) for the browser tests.
 if [ -f tests/browser/package-lock.json ] && [ ! -d tests/browser/node_modules/playwright-core ]; then
   (cd tests/browser && npm ci --no-audit --no-fund --loglevel=error)
