@@ -82,8 +82,8 @@ fn main() {
         .unwrap_or_else(|| vec![64, 108, 128, 168, 256, 512]);
     println!("random erasures completed by repair::complete (scrambled matrices, seeded)");
     println!(
-        "{:>5} {:>9} | {:>7} {:>6} {:>8} | {:>9} {:>8}  {}",
-        "n", "n²/ln n", "target", "s", "result", "largest", "ratio", "s at largest"
+        "{:>5} {:>9} | {:>7} {:>6} {:>8} | {:>9} {:>8}  s at largest",
+        "n", "n²/ln n", "target", "s", "result", "largest", "ratio"
     );
     for n in orders {
         let Some(h0) = base(n) else {

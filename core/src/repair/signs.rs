@@ -73,7 +73,8 @@ pub fn wrong_signs(m: &Matrix, report: &Report) -> Option<SignRepair> {
     let by_rows = rebuild(m).map(|(fixed, sus)| (fixed, sus, Axis::Rows));
     let by_cols =
         rebuild(&m.transpose()).map(|(fixed, sus)| (fixed.transpose(), sus, Axis::Columns));
-    let mut best: Option<(Verified, Vec<(usize, usize)>, Vec<usize>, Axis)> = None;
+    type Candidate = (Verified, Vec<(usize, usize)>, Vec<usize>, Axis);
+    let mut best: Option<Candidate> = None;
     for (fixed, suspects, axis) in [by_rows, by_cols].into_iter().flatten() {
         let Ok(v) = certify(fixed) else { continue };
         let entries = differences(m, v.matrix());
@@ -177,8 +178,8 @@ fn rebuild(m: &Matrix) -> Option<(Matrix, Vec<usize>)> {
                 }
             }
         }
-        for c in 0..n {
-            let p = n as i64 * m.get(b, c) as i64 - total + acc[c];
+        for (c, &a) in acc.iter().enumerate() {
+            let p = n as i64 * m.get(b, c) as i64 - total + a;
             if p == 0 {
                 return None;
             }

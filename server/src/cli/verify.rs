@@ -5,7 +5,9 @@
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
 use super::input::{read_input, InputArgs};
-use hadamard_core::repair::{self, Completion, Repair};
+use super::progress::Spinner;
+use crate::repair_json::{completion_json, repair_json};
+use hadamard_core::repair::{self, Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
 use serde_json::{json, Value};
 use std::process::ExitCode;
@@ -36,14 +38,20 @@ pub fn run(args: VerifyArgs) -> ExitCode {
     let hadamard = report.hadamard && !erased;
 
     let completion = erased.then(|| {
-        repair::complete(
+        let spin = Spinner::start(&format!(
+            "completing {} erased entries",
+            parsed.erasures.len()
+        ));
+        let c = repair::complete(
             &parsed.matrix,
             &parsed.erasures,
             repair::CompletionLimits::default(),
-        )
+        );
+        spin.finish();
+        c
     });
     let fix = (!hadamard && !erased)
-        .then(|| repair::single_wrong_entry(&parsed.matrix, &report))
+        .then(|| repair::wrong_signs(&parsed.matrix, &report))
         .flatten();
 
     if args.json {
@@ -60,7 +68,9 @@ pub fn run(args: VerifyArgs) -> ExitCode {
             );
             o.insert(
                 "completion".into(),
-                completion.as_ref().map_or(Value::Null, completion_json),
+                completion
+                    .as_ref()
+                    .map_or(Value::Null, |c| completion_json(c, &parsed.erasures)),
             );
         }
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
@@ -81,41 +91,23 @@ pub fn run(args: VerifyArgs) -> ExitCode {
     }
 }
 
-fn repair_json(r: &Repair) -> Value {
-    json!({
-        "kind": "single_wrong_entry",
-        "row": r.row,
-        "col": r.col,
-        "index_base": 0,
-        "corrected_sha256": r.corrected_id,
-    })
-}
-
-fn completion_json(c: &Completion) -> Value {
-    match c {
-        Completion::Unique { id, .. } => json!({"kind": "unique", "completed_sha256": id}),
-        Completion::None => json!({"kind": "none"}),
-        Completion::Several { count, complete } => {
-            json!({"kind": "several", "count": count, "count_is_exact": complete})
-        }
-        Completion::GaveUp { explored } => json!({"kind": "undecided", "explored_nodes": explored}),
-    }
-}
-
 fn print_human(
     r: &Report,
     hadamard: bool,
     format: &str,
     secs: f64,
-    fix: Option<&Repair>,
-    completion: Option<&Completion>,
+    fix: Option<&SignRepair>,
+    completion: Option<&CompletionReport>,
 ) {
     let shape = if r.order == r.cols {
         format!("order {}", r.order)
     } else {
         format!("{}×{}", r.order, r.cols)
     };
-    if hadamard {
+    let erased = completion.map_or(0, |c| c.erased);
+    if erased > 0 {
+        println!("incomplete: {erased} entries erased (?), {shape}.");
+    } else if hadamard {
         println!(
             "Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).",
             r.order
@@ -142,32 +134,78 @@ fn print_human(
             }
         }
         if let Some(f) = fix {
-            println!(
-                "  one wrong sign explains it: row {}, column {}. Flipped, it is Hadamard with id {}.",
-                f.row + 1,
-                f.col + 1,
-                f.corrected_id
-            );
+            let d = f.entries.len();
+            if d == 1 {
+                let (i, j) = f.entries[0];
+                println!(
+                    "  one wrong sign explains it: row {}, column {}. Flipped, it is Hadamard with id {}.",
+                    i + 1,
+                    j + 1,
+                    f.corrected_id
+                );
+            } else {
+                println!(
+                    "  {d} wrong signs explain it (found along the {}). Corrected, it is Hadamard with id {}:",
+                    if f.axis == Axis::Rows { "rows" } else { "columns" },
+                    f.corrected_id
+                );
+                for &(i, j) in f.entries.iter().take(20) {
+                    println!("    row {}, column {}", i + 1, j + 1);
+                }
+                if d > 20 {
+                    println!("    … and {} more (--json lists them all)", d - 20);
+                }
+            }
+            if f.unique_within_distance {
+                println!("  no other Hadamard matrix is within {d} changes (distinct ones differ in at least n entries)");
+            } else {
+                println!("  whether another Hadamard matrix is within {d} changes is not decided");
+            }
         }
     }
     if let Some(c) = completion {
-        match c {
-            Completion::Unique { id, .. } => println!(
-                "  the erased entries (?) are fixed by orthogonality: one completion, id {id}"
-            ),
+        let fixed = format!(
+            "{} of the {} were fixed by the linear equations of orthogonality",
+            c.determined, c.erased
+        );
+        match &c.outcome {
+            Completion::Unique { id, proof, .. } => {
+                println!("  one completion, id {id}: {fixed}");
+                if *proof == Proof::Search {
+                    println!("  and an exhaustive search found exactly one way to fill the rest");
+                }
+            }
             Completion::None => {
                 println!("  no way of filling the erased entries (?) gives a Hadamard matrix")
             }
             Completion::Several {
                 count,
-                complete: true,
-            } => println!("  the erased entries (?) admit {count} completions"),
-            Completion::Several {
-                count,
-                complete: false,
-            } => println!("  the erased entries (?) admit at least {count} completions"),
-            Completion::GaveUp { .. } => {
-                println!("  the erased entries (?) could not be settled within the search limit")
+                complete,
+                examples,
+            } => {
+                println!(
+                    "  the erased entries (?) admit {}{count} completions; two of them:",
+                    if *complete { "" } else { "at least " }
+                );
+                for v in examples {
+                    println!("    {}", v.id());
+                }
+            }
+            Completion::Undecided {
+                remaining,
+                candidate,
+                ..
+            } => {
+                println!(
+                    "  undecided within the search limit: {fixed}; {} are still unknown",
+                    remaining.len()
+                );
+                if let Some(v) = candidate {
+                    println!(
+                        "  one completion found (not proven the only one): {}",
+                        v.id()
+                    );
+                }
             }
         }
     }
