@@ -70,6 +70,17 @@ pub fn wrong_signs(m: &Matrix, report: &Report) -> Option<SignRepair> {
     if report.failing_pairs_total > (n * n / 4) as u64 {
         return None;
     }
+    // One wrong sign has a cheaper exact test (its pattern of failing pairs).
+    if let Some(r) = super::single_wrong_entry(m, report) {
+        return Some(SignRepair {
+            entries: vec![(r.row, r.col)],
+            corrected_id: r.corrected_id,
+            corrected: r.corrected,
+            axis: Axis::Rows,
+            suspects: vec![r.row],
+            unique_within_distance: 2 < n,
+        });
+    }
     let by_rows = rebuild(m).map(|(fixed, sus)| (fixed, sus, Axis::Rows));
     let by_cols =
         rebuild(&m.transpose()).map(|(fixed, sus)| (fixed.transpose(), sus, Axis::Columns));
@@ -115,13 +126,9 @@ fn rebuild(m: &Matrix) -> Option<(Matrix, Vec<usize>)> {
     // fails[i]: bit j set when rows i and j are not orthogonal.
     let mut fails = vec![0u64; n * words];
     let mut count = vec![0usize; n];
-    let mut dots = vec![0i64; n * n];
     for i in 0..n {
         for j in i + 1..n {
-            let d = m.row_dot(i, j);
-            dots[i * n + j] = d;
-            dots[j * n + i] = d;
-            if d != 0 {
+            if m.row_dot(i, j) != 0 {
                 fails[i * words + j / 64] |= 1 << (j % 64);
                 fails[j * words + i / 64] |= 1 << (i % 64);
                 count[i] += 1;
@@ -165,7 +172,7 @@ fn rebuild(m: &Matrix) -> Option<(Matrix, Vec<usize>)> {
         let mut total = 0i64;
         acc.iter_mut().for_each(|a| *a = 0);
         for &g in &good {
-            let d = dots[b * n + g];
+            let d = m.row_dot(b, g);
             if d == 0 {
                 continue;
             }
