@@ -1,11 +1,12 @@
 //! Benchmark: how many random erasures `repair::complete` settles, and how fast, against n²/ln n.
 //!
 //! `cargo bench -p hadamard-core --bench repair` prints, for each order n from 64 to 512, the
-//! largest number of random erasures (tried at fractions 0.3, 0.4, … of n²/ln n, one seeded
-//! scrambled matrix and one seeded erasure pattern each) that was completed uniquely, the time
-//! that took, and the ratio to n²/ln n — the scale at which erasures stop determining a Hadamard
+//! largest number of random erasures (tried at fractions 0.1, 0.2, … of n²/ln n, one seeded
+//! scrambled matrix and one seeded erasure pattern each, until one fails or takes over a
+//! minute) that was completed uniquely, the time that took, and the ratio to n²/ln n — the scale at which erasures stop determining a Hadamard
 //! matrix (J. Kline, Theoret. Comput. Sci. 778 (2019) 33–46). The issue's target,
-//! ⌊n²/(2 ln n)⌋, is ratio 0.5; the time for exactly that load is printed too. The baseline is
+//! ⌊n²/(2 ln n)⌋, is ratio 0.5; the time for exactly that load is printed too (for n ≤ 256,
+//! the orders the issue names). The baseline is
 //! n²/ln n itself, so the ratio column compares across machines; times depend on the machine
 //! and its load (run `uptime` beside it).
 //!
@@ -93,21 +94,28 @@ fn main() {
         let h = scrambled(&h0, 15 + n as u64);
         let scale = (n * n) as f64 / (n as f64).ln();
         let target = (scale / 2.0).floor() as usize;
-        let (ok, secs, what) = trial(&h, target, 1000 + n as u64);
+        let (ok, secs, what) = if n <= 256 {
+            trial(&h, target, 1000 + n as u64)
+        } else {
+            (false, f64::NAN, "target not tried".into())
+        };
         let mut best: Option<(usize, f64)> = None;
-        for tenths in 3..=12 {
+        for tenths in 1..=12 {
             let count = (scale * tenths as f64 / 10.0) as usize;
             let (good, s, _) = trial(&h, count, 2000 + n as u64 + tenths);
             if !good {
                 break;
             }
             best = Some((count, s));
+            if s > 60.0 {
+                break;
+            }
         }
         let (largest, s_largest) = best.unwrap_or((0, 0.0));
         println!(
             "{n:>5} {:>9.0} | {target:>7} {secs:>6.2} {:>8} | {largest:>9} {:>8.2}  {s_largest:.2}   ({what})",
             scale,
-            if ok { "unique" } else { "FAILED" },
+            if ok { "unique" } else if n <= 256 { "FAILED" } else { "-" },
             largest as f64 / scale,
         );
     }
