@@ -23,7 +23,8 @@
 //! entries are filled in, which makes more pairs linear, and this repeats until a round fixes
 //! nothing. This follows the observation that about n²/log n random erasures still determine a
 //! Hadamard matrix (J. Kline, "Geometric search for Hadamard matrices", Theoret. Comput. Sci.
-//! 778 (2019) 33–46), by elimination rather than by that paper's algorithm.
+//! 778 (2019) 33–46), by elimination rather than by that paper's algorithm
+//! (references.md#r13-erasures-and-wrong-signs).
 //!
 //! What is left goes to a backtracking search. For each pair of rows it keeps the part S of the
 //! inner product already known and the number K of terms still unknown; a partial assignment

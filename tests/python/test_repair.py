@@ -121,7 +121,7 @@ def test_random_wrong_signs_are_corrected(n):
     assert [(e["row"], e["col"]) for e in r["entries"]] == cells
     assert all(e["was"] == bad[e["row"], e["col"]] and e["now"] == h[e["row"], e["col"]] for e in r["entries"])
     assert r["corrected_sha256"] == sha(h)
-    # 2d < n: distinct Hadamard matrices differ in at least n entries [derived in repair/signs.rs].
+    # 2d < n: distinct Hadamard matrices differ in at least n entries [references.md#r13-erasures-and-wrong-signs].
     assert r["unique_within_distance"] is True
 
 

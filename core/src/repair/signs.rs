@@ -22,7 +22,8 @@
 //! the largest δ_j, δ_j(n − δ_j) ≤ Σ_{k≠j} δ_k² ≤ δ_j·(D − δ_j) where D = Σ δ_k, so D ≥ n.
 //! Hence a correction changing d entries with 2d < n is the only Hadamard matrix within d
 //! changes of the observed matrix (another one would be within 2d < n of it), and it is the
-//! nearest. For 2d ≥ n the question is left open and reported as such.
+//! nearest. For 2d ≥ n the question is left open and reported as such
+//! (references.md#r13-erasures-and-wrong-signs).
 
 use crate::matrix::Matrix;
 use crate::verify::{certify, order_possible, Report, Verified};
