@@ -10,7 +10,7 @@
 //! n²/ln n itself, so the ratio column compares across machines; times depend on the machine
 //! and its load (run `uptime` beside it).
 //!
-//! `BENCH_REPAIR_ORDERS=64,128` picks the orders.
+//! `BENCH_REPAIR_ORDERS=64,128` picks the orders; `BENCH_REPAIR_QUICK=1` times the target only.
 
 use hadamard_core::construct::paley::paley_one;
 use hadamard_core::derive::rng::SplitMix64;
@@ -100,7 +100,9 @@ fn main() {
             (false, f64::NAN, "target not tried".into())
         };
         let mut best: Option<(usize, f64)> = None;
-        for tenths in 1..=12 {
+        // BENCH_REPAIR_QUICK=1: the target load only.
+        let quick = std::env::var_os("BENCH_REPAIR_QUICK").is_some();
+        for tenths in (1..=12).filter(|_| !quick) {
             let count = (scale * tenths as f64 / 10.0) as usize;
             let (good, s, _) = trial(&h, count, 2000 + n as u64 + tenths);
             if !good {

@@ -10,7 +10,8 @@
 //!
 //! A vector over GF(3) is two bit planes: `nz` (the entry is non-zero) and `sg` (the entry is 2,
 //! that is −1), 64 entries to a word, so a row operation is about ten word operations per 64
-//! entries.
+//! entries. Natively the rows of each elimination step are shared among the cores
+//! (rayon); in wasm32 one thread does them.
 
 /// A linear system over GF(3) in `vars` unknowns; the right-hand side is column `vars`.
 pub(crate) struct System {
@@ -107,13 +108,10 @@ impl System {
             }
             pivot.copy_from_slice(prow);
             let (pn, ps) = pivot.split_at(w);
-            for r in 0..self.rows {
-                if r == rank {
-                    continue;
-                }
-                let row = &mut self.data[stride * r..stride * (r + 1)];
-                if row[word] & bit == 0 {
-                    continue;
+            let at = rank;
+            let update = |(r, row): (usize, &mut [u64])| {
+                if r == at || row[word] & bit == 0 {
+                    return;
                 }
                 // row −= a·pivot with a = row's entry: a = 1 adds 2·pivot, a = 2 adds pivot.
                 let flip = if row[w + word] & bit == 0 {
@@ -129,7 +127,19 @@ impl System {
                     &ps[word..],
                     flip,
                 );
+            };
+            let rows = &mut self.data[..stride * self.rows];
+            // Natively the rows are shared among the cores; in wasm32 one thread does them all.
+            #[cfg(not(target_arch = "wasm32"))]
+            {
+                use rayon::prelude::*;
+                rows.par_chunks_mut(stride)
+                    .enumerate()
+                    .with_min_len(256)
+                    .for_each(update);
             }
+            #[cfg(target_arch = "wasm32")]
+            rows.chunks_mut(stride).enumerate().for_each(update);
             pivot_cols.push(col);
             rank += 1;
         }
