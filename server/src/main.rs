@@ -8,7 +8,6 @@ mod api;
 mod app;
 mod catalogue;
 mod cli;
-mod repair_json;
 mod store;
 mod time;
 mod web_assets;

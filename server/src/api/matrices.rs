@@ -6,7 +6,6 @@ use super::helpers::{
 };
 use crate::app::AppState;
 use crate::catalogue::{Equivalence, Ingested, UploadError, UploadOutcome};
-use crate::repair_json::{completion_json, repair_json};
 use crate::store::matrices::{self, MatrixRecord, Origin};
 use axum::body::Body;
 use axum::extract::{Path, Query, State};
@@ -14,6 +13,7 @@ use axum::http::{header, HeaderMap, HeaderValue, StatusCode};
 use axum::response::IntoResponse;
 use axum::Json;
 use hadamard_core::formats::{self, Format, ReadOptions, WriteFormat};
+use hadamard_core::json::{completion_json, repair_json};
 use hadamard_core::repair::Completion;
 use http_body_util::{BodyExt, LengthLimitError, Limited};
 use serde_json::{json, Value};

@@ -6,10 +6,9 @@
 
 use super::input::{read_input, InputArgs};
 use super::progress::Spinner;
-use crate::repair_json::{completion_json, repair_json};
-use hadamard_core::repair::{self, Axis, Completion, CompletionReport, Proof, SignRepair};
+use hadamard_core::json;
+use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
-use serde_json::{json, Value};
 use std::process::ExitCode;
 use std::time::Instant;
 
@@ -40,45 +39,25 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
     let report = verify::verify_with_cap(&parsed.matrix, args.max_pairs);
     let elapsed = start.elapsed();
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
-    let erased = !parsed.erasures.is_empty();
-    let hadamard = report.hadamard && !erased;
-
-    let completion = erased.then(|| {
-        let spin = Spinner::start(&format!(
+    let spin = (!parsed.erasures.is_empty()).then(|| {
+        Spinner::start(&format!(
             "completing {} erased entries",
             parsed.erasures.len()
-        ));
-        let c = repair::complete(
-            &parsed.matrix,
-            &parsed.erasures,
-            repair::CompletionLimits::default(),
-        );
-        spin.finish();
-        c
+        ))
     });
-    let fix = (!hadamard && !erased)
-        .then(|| repair::wrong_signs(&parsed.matrix, &report))
-        .flatten();
+    let follow = json::follow_up(&parsed.matrix, &parsed.erasures, &report);
+    if let Some(s) = spin {
+        s.finish();
+    }
+    let hadamard = follow.hadamard;
 
     if args.json {
-        let mut v = serde_json::to_value(&report).unwrap_or(Value::Null);
-        if let Value::Object(o) = &mut v {
-            o.insert("hadamard".into(), json!(hadamard));
-            o.insert("format".into(), json!(parsed.format.name()));
-            o.insert("failing_pairs_index_base".into(), json!(0));
-            o.insert("elapsed_ms".into(), json!(elapsed.as_secs_f64() * 1e3));
-            o.insert("erased_entries".into(), json!(parsed.erasures.len()));
-            o.insert(
-                "repair".into(),
-                fix.as_ref().map_or(Value::Null, repair_json),
-            );
-            o.insert(
-                "completion".into(),
-                completion
-                    .as_ref()
-                    .map_or(Value::Null, |c| completion_json(c, &parsed.erasures)),
-            );
-        }
+        let v = json::verification(
+            &report,
+            &follow,
+            parsed.format.name(),
+            elapsed.as_secs_f64() * 1e3,
+        );
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         print_human(
@@ -86,8 +65,8 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             hadamard,
             parsed.format.name(),
             elapsed.as_secs_f64(),
-            fix.as_ref(),
-            completion.as_ref(),
+            follow.repair.as_ref(),
+            follow.completion.as_ref(),
         );
     }
     if hadamard {
