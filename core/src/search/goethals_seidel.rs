@@ -50,12 +50,24 @@ enum Shape {
         /// True when −1 ∈ H: every candidate is symmetric.
         symmetric: bool,
     },
+    /// Fixed by H, each block with its own [`BlockType`], as sign choices on its [`Basis`].
+    Typed {
+        multipliers: Vec<usize>,
+        types: [BlockType; 4],
+        /// The basis of each block (blocks of the same type share one).
+        bases: [Arc<Basis>; 4],
+        /// True when every block is symmetric (type or −1 ∈ H): reported as Williamson.
+        symmetric: bool,
+    },
 }
 
 struct Decomposition {
     rows: [Arc<Vec<Seq>>; 4],
     outer: [usize; 2],
     inner: [usize; 2],
+    /// The sequences of block `outer[0]` the units iterate: all of them, or (typed searches)
+    /// only the least of each class under the multipliers.
+    lead: Arc<Vec<Seq>>,
     table: OnceLock<Vec<(u64, u32, u32)>>,
 }
 
@@ -77,6 +89,9 @@ pub enum ShapeError {
     NotAUnit { v: usize, multiplier: usize },
     /// H has more orbits than [`MAX_ORBITS`].
     TooManyOrbits { orbits: usize },
+    /// A skew-type block needs x and −x in different orbits for every x ≠ 0; this orbit
+    /// (given by its least element) contains both.
+    SkewImpossible { block: usize, element: usize },
 }
 
 impl std::fmt::Display for ShapeError {
@@ -88,6 +103,11 @@ impl std::fmt::Display for ShapeError {
             ShapeError::TooManyOrbits { orbits } => write!(
                 f,
                 "the multipliers have {orbits} orbits; at most {MAX_ORBITS} can be enumerated (choose a multiplier of larger order)"
+            ),
+            ShapeError::SkewImpossible { block, element } => write!(
+                f,
+                "block {} cannot be skew-type: {element} and −{element} lie in the same orbit of the multipliers (skew needs −1 outside the group, and v odd)",
+                block + 1
             ),
         }
     }
@@ -365,6 +385,382 @@ pub fn line(q: &GsQuadruple) -> String {
     )
 }
 
+/// The extra structure one block of a typed multiplier search has, on top of being fixed by
+/// the multipliers H ([`GsSearch::with_types`]).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub enum BlockType {
+    /// None: one free sign per orbit of H.
+    Any,
+    /// Symmetric, aₓ = a₋ₓ: one free sign per orbit of ⟨H, −1⟩.
+    Symmetric,
+    /// Skew-type, a₀ = +1 and a₋ₓ = −aₓ for x ≠ 0: one free sign per pair of orbits {O, −O}.
+    /// A skew-type first block makes the Goethals–Seidel matrix skew-Hadamard (H + Hᵀ = 2I).
+    Skew,
+}
+
+impl BlockType {
+    /// The name `--types` takes: `any`, `sym` or `skew`.
+    pub fn name(self) -> &'static str {
+        match self {
+            BlockType::Any => "any",
+            BlockType::Symmetric => "sym",
+            BlockType::Skew => "skew",
+        }
+    }
+}
+
+impl std::str::FromStr for BlockType {
+    type Err = String;
+    fn from_str(s: &str) -> Result<Self, String> {
+        match s.trim() {
+            "any" | "none" => Ok(BlockType::Any),
+            "sym" | "symmetric" => Ok(BlockType::Symmetric),
+            "skew" => Ok(BlockType::Skew),
+            other => Err(format!(
+                "unknown block type `{other}` (expected any, sym or skew)"
+            )),
+        }
+    }
+}
+
+/// Reads four block types separated by commas, e.g. `sym,sym,sym,any`.
+pub fn parse_types(s: &str) -> Result<[BlockType; 4], String> {
+    let parts: Vec<&str> = s.split(',').collect();
+    if parts.len() != 4 {
+        return Err(format!(
+            "expected four block types separated by commas, found {} in `{s}`",
+            parts.len()
+        ));
+    }
+    let mut out = [BlockType::Any; 4];
+    for (i, p) in parts.iter().enumerate() {
+        out[i] = p.parse().map_err(|e| format!("block {}: {e}", i + 1))?;
+    }
+    Ok(out)
+}
+
+/// `sym,sym,sym,any`.
+pub fn types_text(types: &[BlockType; 4]) -> String {
+    types.map(|t| t.name()).join(",")
+}
+
+/// Checks, independently of the search's bookkeeping, that a quadruple has the structure a
+/// typed search looks for: each block fixed by the group `gens` generate mod v (aₕₓ = aₓ) and
+/// of its type. The error names the block (1–4) and the first position that fails.
+pub fn check_structure(
+    q: &GsQuadruple,
+    gens: &[usize],
+    types: &[BlockType; 4],
+) -> Result<(), String> {
+    let v = q.v();
+    let h = generated_group(v, gens);
+    for (i, (a, t)) in q.a.iter().zip(types).enumerate() {
+        let block = i + 1;
+        if a.len() != v {
+            return Err(format!("block {block}: length {} is not {v}", a.len()));
+        }
+        for x in 0..v {
+            if let Some(&m) = h.iter().find(|&&m| a[m * x % v] != a[x]) {
+                return Err(format!(
+                    "block {block}: not fixed by the multiplier {m} (entries {x} and {})",
+                    m * x % v
+                ));
+            }
+            let minus = (v - x) % v;
+            match t {
+                BlockType::Any => {}
+                BlockType::Symmetric if a[minus] != a[x] => {
+                    return Err(format!("block {block}: not symmetric at {x}"));
+                }
+                BlockType::Skew if x == 0 && a[0] != 1 => {
+                    return Err(format!("block {block}: skew-type needs a₀ = +1"));
+                }
+                BlockType::Skew if x != 0 && a[minus] != -a[x] => {
+                    return Err(format!("block {block}: not skew-type at {x}"));
+                }
+                _ => {}
+            }
+        }
+    }
+    Ok(())
+}
+
+/// How the free signs of one block type become a sequence: aₓ = c for each fixed (x, c),
+/// and aₓ = ±c for each (x, c) of variable j, the sign − when bit j is set.
+pub struct Basis {
+    v: usize,
+    fixed: Vec<(usize, i32)>,
+    vars: Vec<Vec<(usize, i32)>>,
+}
+
+impl Basis {
+    /// The basis of block type `t` over the orbits of H (the orbit of 0 first, as [`orbits`]
+    /// lists them). `block` only names the block in an error.
+    fn new(
+        v: usize,
+        orbits: &[Vec<usize>],
+        t: BlockType,
+        block: usize,
+    ) -> Result<Self, ShapeError> {
+        let mut at = vec![0usize; v];
+        for (i, o) in orbits.iter().enumerate() {
+            for &x in o {
+                at[x] = i;
+            }
+        }
+        let negative = |i: usize| at[(v - orbits[i][0]) % v];
+        let mut fixed = Vec::new();
+        let mut vars = Vec::new();
+        let mut used = vec![false; orbits.len()];
+        fn plus(o: &[usize], c: i32) -> impl Iterator<Item = (usize, i32)> + '_ {
+            o.iter().map(move |&x| (x, c))
+        }
+        for i in 0..orbits.len() {
+            if used[i] {
+                continue;
+            }
+            let j = negative(i);
+            used[i] = true;
+            used[j] = true;
+            match t {
+                BlockType::Any => {
+                    used[j] = j == i;
+                    vars.push(plus(&orbits[i], 1).collect());
+                }
+                BlockType::Symmetric => {
+                    let mut var: Vec<(usize, i32)> = plus(&orbits[i], 1).collect();
+                    if j != i {
+                        var.extend(plus(&orbits[j], 1));
+                    }
+                    vars.push(var);
+                }
+                BlockType::Skew if orbits[i][0] == 0 => fixed.push((0, 1)),
+                BlockType::Skew if j == i => {
+                    return Err(ShapeError::SkewImpossible {
+                        block,
+                        element: orbits[i][0],
+                    })
+                }
+                BlockType::Skew => {
+                    vars.push(plus(&orbits[i], 1).chain(plus(&orbits[j], -1)).collect());
+                }
+            }
+        }
+        Ok(Basis { v, fixed, vars })
+    }
+
+    fn expand(&self, bits: u64) -> Vec<i32> {
+        let mut a = vec![0i32; self.v];
+        for &(x, c) in &self.fixed {
+            a[x] = c;
+        }
+        for (j, var) in self.vars.iter().enumerate() {
+            let s = if bits >> j & 1 == 1 { -1 } else { 1 };
+            for &(x, c) in var {
+                a[x] = s * c;
+            }
+        }
+        a
+    }
+
+    /// The bits of a sequence that this basis spans, or `None` when it does not span it.
+    pub fn bits_of(&self, a: &[i8]) -> Option<u64> {
+        let mut bits = 0u64;
+        for (j, var) in self.vars.iter().enumerate() {
+            let (x, c) = var[0];
+            if a[x] as i32 != c {
+                bits |= 1 << j;
+            }
+        }
+        let back = self.expand(bits);
+        back.iter()
+            .zip(a)
+            .all(|(&p, &q)| p == q as i32)
+            .then_some(bits)
+    }
+
+    /// The number of free signs.
+    pub fn len(&self) -> usize {
+        self.vars.len()
+    }
+
+    /// True when there is no free sign.
+    pub fn is_empty(&self) -> bool {
+        self.vars.is_empty()
+    }
+
+    /// The sign pattern of the multiplier u: the image under x → ux of the sequence with `bits`
+    /// is the sequence with `map(bits)`, where variable j goes to `to[j]`, negated when
+    /// `flip[j]` (skew-type pairs can swap their sides).
+    fn multiplier_map(&self, u: usize) -> (Vec<usize>, Vec<bool>) {
+        let mut var_at = vec![(usize::MAX, 0i32); self.v];
+        for (j, var) in self.vars.iter().enumerate() {
+            for &(x, c) in var {
+                var_at[x] = (j, c);
+            }
+        }
+        self.vars
+            .iter()
+            .map(|var| {
+                let (x, c) = var[0];
+                let (j2, c2) = var_at[u * x % self.v];
+                (j2, c * c2 < 0)
+            })
+            .unzip()
+    }
+}
+
+/// The candidates of one block type and row sum: the sign choices whose sequence has that sum
+/// and a power spectrum ≤ 4v at every probe frequency, sorted by bits.
+fn basis_sequences_with_sum(basis: &Basis, sum: i64, probes: &[usize]) -> Vec<Seq> {
+    let v = basis.v;
+    let (cos, sin) = unit_circle(v);
+    let fourier = |part: &[(usize, i32)]| -> Vec<(f64, f64)> {
+        probes
+            .iter()
+            .map(|&k| {
+                part.iter().fold((0.0, 0.0), |(re, im), &(x, c)| {
+                    let t = x * k % v;
+                    (re + c as f64 * cos[t], im + c as f64 * sin[t])
+                })
+            })
+            .collect()
+    };
+    let base = fourier(&basis.fixed);
+    let parts: Vec<Vec<(f64, f64)>> = basis.vars.iter().map(|var| fourier(var)).collect();
+    let weights: Vec<i64> = basis
+        .vars
+        .iter()
+        .map(|var| var.iter().map(|&(_, c)| c as i64).sum())
+        .collect();
+    let fixed_sum: i64 = basis.fixed.iter().map(|&(_, c)| c as i64).sum();
+    let limit = 4.0 * v as f64 + 1e-6;
+    let k = basis.vars.len();
+    let total = 1u64 << k;
+    let chunk = 1u64 << k.saturating_sub(8);
+    let mut out: Vec<Seq> = (0..total.div_ceil(chunk))
+        .into_par_iter()
+        .flat_map_iter(|c| {
+            let (base, parts, weights) = (&base, &parts, &weights);
+            (c * chunk..((c + 1) * chunk).min(total))
+                .filter(move |&b| {
+                    let s: i64 = (0..k)
+                        .map(|j| {
+                            if b >> j & 1 == 1 {
+                                -weights[j]
+                            } else {
+                                weights[j]
+                            }
+                        })
+                        .sum();
+                    s + fixed_sum == sum
+                })
+                .filter_map(move |b| {
+                    let mut psd = Vec::with_capacity(probes.len());
+                    for (p, &(re0, im0)) in base.iter().enumerate() {
+                        let (mut re, mut im) = (re0, im0);
+                        for (j, part) in parts.iter().enumerate() {
+                            let (pr, pi) = part[p];
+                            if b >> j & 1 == 1 {
+                                re -= pr;
+                                im -= pi;
+                            } else {
+                                re += pr;
+                                im += pi;
+                            }
+                        }
+                        let x = re * re + im * im;
+                        if x > limit {
+                            return None;
+                        }
+                        psd.push(x);
+                    }
+                    let a = basis.expand(b);
+                    let paf = probes
+                        .iter()
+                        .map(|&s| (0..v).map(|i| a[i] * a[(i + s) % v]).sum())
+                        .collect();
+                    Some(Seq { bits: b, paf, psd })
+                })
+        })
+        .collect();
+    out.sort_by_key(|s| s.bits);
+    out
+}
+
+/// The sequences of `all` that are the least (by bits) of their images under the
+/// multipliers `maps` (one per coset of H in the units).
+fn leaders(all: &[Seq], maps: &[(Vec<usize>, Vec<bool>)]) -> Vec<usize> {
+    all.par_iter()
+        .enumerate()
+        .filter(|(_, s)| {
+            maps.iter().all(|(to, flip)| {
+                let mut image = 0u64;
+                for (j, (&t, &f)) in to.iter().zip(flip).enumerate() {
+                    if (s.bits >> j & 1 == 1) != f {
+                        image |= 1 << t;
+                    }
+                }
+                image >= s.bits
+            })
+        })
+        .map(|(i, _)| i)
+        .collect()
+}
+
+/// The candidates of one (block type, row sum).
+type RowsOf = ((BlockType, i64), Arc<Vec<Seq>>);
+
+/// One representative of each coset of H in the units mod v, other than H itself.
+fn coset_representatives(v: usize, h: &[usize]) -> Vec<usize> {
+    let mut covered = vec![false; v];
+    for &x in h {
+        covered[x] = true;
+    }
+    let mut out = Vec::new();
+    for u in 2..v {
+        if covered[u] || gcd(u, v) != 1 {
+            continue;
+        }
+        out.push(u);
+        for &x in h {
+            covered[u * x % v] = true;
+        }
+    }
+    out
+}
+
+/// The ways of giving the row sums of one decomposition of 4v to the four blocks: a skew-type
+/// block has row sum 1 (a₀ = 1 and the rest cancels); blocks of the same type are
+/// interchangeable, so their sums are taken non-increasing.
+fn typed_sums(sums: [i64; 4], types: &[BlockType; 4]) -> Vec<[i64; 4]> {
+    let mut out = std::collections::BTreeSet::new();
+    for p in permutations4() {
+        let s = p.map(|i| sums[i]);
+        let ok = (0..4).all(|i| types[i] != BlockType::Skew || s[i] == 1)
+            && (0..4).all(|i| (i + 1..4).all(|j| types[i] != types[j] || s[i] >= s[j]));
+        if ok {
+            out.insert(s);
+        }
+    }
+    out.into_iter().rev().collect()
+}
+
+fn permutations4() -> Vec<[usize; 4]> {
+    let mut out = Vec::new();
+    for a in 0..4 {
+        for b in 0..4 {
+            for c in 0..4 {
+                let d = 6 - a - b - c;
+                if a != b && a != c && b != c && d < 4 && d != a && d != b && d != c {
+                    out.push([a, b, c, d]);
+                }
+            }
+        }
+    }
+    out
+}
+
 impl GsSearch {
     /// Prepares the search over all sequences of length v ≤ 40: decompositions of 4v and
     /// their candidate sequences.
@@ -429,11 +825,133 @@ impl GsSearch {
         })
     }
 
+    /// Prepares the search over the quadruples whose blocks are all fixed by the group the
+    /// multipliers `gens` generate mod v, block i also of type `types[i]` (symmetric,
+    /// skew-type or neither), whether or not −1 is in the group. Only the least of each class
+    /// of the iterated block under the other units (x → ux maps a solution to a solution) is
+    /// tried, so every quadruple found is one of a class; none found proves there is no such
+    /// quadruple with these types and this group.
+    pub fn with_types(v: usize, gens: &[usize], types: [BlockType; 4]) -> Result<Self, ShapeError> {
+        if let Some(&g) = gens.iter().find(|&&g| v < 2 || gcd(g % v, v) != 1) {
+            return Err(ShapeError::NotAUnit { v, multiplier: g });
+        }
+        if gens.is_empty() {
+            return Err(ShapeError::NotAUnit { v, multiplier: 0 });
+        }
+        let gens: Vec<usize> = gens.iter().map(|g| g % v).collect();
+        let h = generated_group(v, &gens);
+        let orbits = self::orbits(v, &h);
+        let mut by_type: Vec<(BlockType, Arc<Basis>)> = Vec::new();
+        let mut bases = Vec::new();
+        for (i, &t) in types.iter().enumerate() {
+            if let Some((_, b)) = by_type.iter().find(|(u, _)| *u == t) {
+                bases.push(b.clone());
+                continue;
+            }
+            let b = Arc::new(Basis::new(v, &orbits, t, i)?);
+            if b.len() > MAX_ORBITS {
+                return Err(ShapeError::TooManyOrbits { orbits: b.len() });
+            }
+            by_type.push((t, b.clone()));
+            bases.push(b);
+        }
+        let bases: [Arc<Basis>; 4] = [0, 1, 2, 3].map(|i| bases[i].clone());
+        let minus_one_in_h = h.contains(&(v - 1));
+        let symmetric = types
+            .iter()
+            .all(|&t| t == BlockType::Symmetric || (minus_one_in_h && t == BlockType::Any));
+        let mut with_minus: Vec<usize> = h.iter().flat_map(|&x| [x, v - x]).collect();
+        with_minus.sort_unstable();
+        with_minus.dedup();
+        let probes: Vec<usize> = self::orbits(v, &with_minus)
+            .iter()
+            .skip(1)
+            .map(|o| o[0])
+            .collect();
+        let reps = coset_representatives(v, &h);
+        let mut cache: Vec<RowsOf> = Vec::new();
+        let mut lead_cache: Vec<RowsOf> = Vec::new();
+        let mut decompositions = Vec::new();
+        for sums in four_squares(4 * v as i64, v as i64 % 2) {
+            for s in typed_sums(sums, &types) {
+                let mut get = |i: usize| -> Arc<Vec<Seq>> {
+                    let k = (types[i], s[i]);
+                    if let Some((_, r)) = cache.iter().find(|(t, _)| *t == k) {
+                        return r.clone();
+                    }
+                    let r = Arc::new(basis_sequences_with_sum(&bases[i], s[i], &probes));
+                    cache.push((k, r.clone()));
+                    r
+                };
+                let rows = [0, 1, 2, 3].map(&mut get);
+                // Of the three pairings and the two sides, the one with the least work: the
+                // outer pair's products (divided by the multiplier classes of its larger
+                // block) plus the table's.
+                let len = |i: usize| rows[i].len() as f64;
+                let classes = (reps.len() + 1) as f64;
+                let mut best: Option<(f64, [usize; 2], [usize; 2])> = None;
+                for (p, q) in [([0, 1], [2, 3]), ([0, 2], [1, 3]), ([0, 3], [1, 2])] {
+                    for (o, t) in [(p, q), (q, p)] {
+                        let o = if len(o[0]) >= len(o[1]) {
+                            o
+                        } else {
+                            [o[1], o[0]]
+                        };
+                        let cost = len(o[0]) * len(o[1]) / classes + len(t[0]) * len(t[1]);
+                        if best.as_ref().is_none_or(|b| cost < b.0) {
+                            best = Some((cost, o, t));
+                        }
+                    }
+                }
+                let (_, outer, inner) = best.expect("three pairings");
+                let k = (types[outer[0]], s[outer[0]]);
+                let lead = match lead_cache.iter().find(|(t, _)| *t == k) {
+                    Some((_, r)) => r.clone(),
+                    None => {
+                        let basis = &bases[outer[0]];
+                        let maps: Vec<_> = reps.iter().map(|&u| basis.multiplier_map(u)).collect();
+                        let all = &rows[outer[0]];
+                        let r: Arc<Vec<Seq>> = Arc::new(
+                            leaders(all, &maps)
+                                .into_iter()
+                                .map(|i| Seq {
+                                    bits: all[i].bits,
+                                    paf: all[i].paf.clone(),
+                                    psd: all[i].psd.clone(),
+                                })
+                                .collect(),
+                        );
+                        lead_cache.push((k, r.clone()));
+                        r
+                    }
+                };
+                decompositions.push(Decomposition {
+                    rows,
+                    outer,
+                    inner,
+                    lead,
+                    table: OnceLock::new(),
+                });
+            }
+        }
+        Ok(GsSearch {
+            v,
+            shape: Shape::Typed {
+                multipliers: gens,
+                types,
+                bases,
+                symmetric,
+            },
+            decompositions,
+        })
+    }
+
     /// The number of sign choices each sequence has: orbits with multipliers, v without.
     pub fn degrees_of_freedom(&self) -> usize {
         match &self.shape {
             Shape::Plain => self.v,
             Shape::Orbits { orbits, .. } => orbits.len(),
+            Shape::Typed { bases, .. } => bases.iter().map(|b| b.len()).max().unwrap_or(0),
         }
     }
 
@@ -458,6 +976,7 @@ impl GsSearch {
                 let size = |x: [usize; 2]| rows[x[0]].len() as u128 * rows[x[1]].len() as u128;
                 let (outer, inner) = if size(p) >= size(q) { (p, q) } else { (q, p) };
                 Decomposition {
+                    lead: rows[outer[0]].clone(),
                     rows,
                     outer,
                     inner,
@@ -467,10 +986,11 @@ impl GsSearch {
             .collect()
     }
 
-    fn expand(&self, bits: u64) -> Vec<i8> {
+    fn expand(&self, block: usize, bits: u64) -> Vec<i8> {
         let a = match &self.shape {
             Shape::Plain => expand(self.v, bits),
             Shape::Orbits { orbits, .. } => expand_orbits(self.v, orbits, bits),
+            Shape::Typed { bases, .. } => bases[block].expand(bits),
         };
         a.into_iter().map(|x| x as i8).collect()
     }
@@ -480,14 +1000,23 @@ impl GsSearch {
     /// fails (it never should: the table only narrows the candidates).
     fn result(&self, picks: [u64; 4]) -> Option<String> {
         let quad = GsQuadruple {
-            a: picks.map(|b| self.expand(b)),
+            a: [0, 1, 2, 3].map(|i| self.expand(i, picks[i])),
         };
         if !quad.is_valid() {
             return None;
         }
+        if let Shape::Typed {
+            multipliers, types, ..
+        } = &self.shape
+        {
+            check_structure(&quad, multipliers, types).ok()?;
+        }
         if matches!(
             self.shape,
             Shape::Orbits {
+                symmetric: true,
+                ..
+            } | Shape::Typed {
                 symmetric: true,
                 ..
             }
@@ -535,6 +1064,17 @@ impl Search for GsSearch {
                 let gens: Vec<String> = multipliers.iter().map(|g| g.to_string()).collect();
                 format!("gs v={} multiplier={}", self.v, gens.join(","))
             }
+            Shape::Typed {
+                multipliers, types, ..
+            } => {
+                let gens: Vec<String> = multipliers.iter().map(|g| g.to_string()).collect();
+                format!(
+                    "gs v={} multiplier={} types={}",
+                    self.v,
+                    gens.join(","),
+                    types_text(types)
+                )
+            }
         }
     }
 
@@ -542,14 +1082,14 @@ impl Search for GsSearch {
         super::slice_units(
             self.decompositions
                 .iter()
-                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.rows[d.outer[0]].len())),
+                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.lead.len())),
         )
     }
 
     fn run_unit(&self, u: &Unit) -> Vec<String> {
         let d = &self.decompositions[u.decomposition];
         let table = self.table(d);
-        let (x, y) = (&d.rows[d.outer[0]], &d.rows[d.outer[1]]);
+        let (x, y) = (&d.lead, &d.rows[d.outer[1]]);
         let (p, q) = (&d.rows[d.inner[0]], &d.rows[d.inner[1]]);
         let mut out = Vec::new();
         for xi in &x[u.from..u.to] {

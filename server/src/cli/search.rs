@@ -88,6 +88,12 @@ enum Kind {
         /// group two multipliers generate. Without it, v > 40 lists the groups there are.
         #[arg(long, value_name = "G", value_delimiter = ',')]
         multiplier: Option<Vec<usize>>,
+        /// With --multiplier: the type of each of the four blocks, e.g. `sym,sym,sym,any`:
+        /// `sym` (aₓ = a₋ₓ), `skew` (a₀ = +1, a₋ₓ = −aₓ; a skew first block gives a
+        /// skew-Hadamard matrix) or `any`. Also when −1 is not a multiplier. Only one quadruple
+        /// per class under the other multipliers is tried.
+        #[arg(long, value_name = "T,T,T,T", requires = "multiplier")]
+        types: Option<String>,
         #[command(flatten)]
         what: What,
         #[command(flatten)]
@@ -202,11 +208,26 @@ pub fn run(args: SearchArgs) -> ExitCode {
         Kind::Gs {
             v,
             multiplier,
+            types,
             what,
             common,
         } => {
+            let typed = match types
+                .as_deref()
+                .map(goethals_seidel::parse_types)
+                .transpose()
+            {
+                Ok(t) => t,
+                Err(e) => {
+                    eprintln!("error: --types: {e}");
+                    return ExitCode::from(2);
+                }
+            };
             let s = match multiplier {
-                Some(g) => match goethals_seidel::GsSearch::with_multipliers(v, &g) {
+                Some(g) => match match typed {
+                    Some(t) => goethals_seidel::GsSearch::with_types(v, &g, t),
+                    None => goethals_seidel::GsSearch::with_multipliers(v, &g),
+                } {
                     Ok(s) => s,
                     Err(e) => {
                         eprintln!("error: {e}");
