@@ -610,78 +610,101 @@ impl Basis {
     }
 }
 
+/// The row sum and Fourier coefficients (at the probe frequencies) of each part of a basis, so
+/// that a sign choice's spectrum is a signed sum of them.
+struct Spectra {
+    base: Vec<(f64, f64)>,
+    parts: Vec<Vec<(f64, f64)>>,
+    weights: Vec<i64>,
+    fixed_sum: i64,
+}
+
+impl Spectra {
+    fn new(basis: &Basis, probes: &[usize]) -> Self {
+        let v = basis.v;
+        let (cos, sin) = unit_circle(v);
+        let fourier = |part: &[(usize, i32)]| -> Vec<(f64, f64)> {
+            probes
+                .iter()
+                .map(|&k| {
+                    part.iter().fold((0.0, 0.0), |(re, im), &(x, c)| {
+                        let t = x * k % v;
+                        (re + c as f64 * cos[t], im + c as f64 * sin[t])
+                    })
+                })
+                .collect()
+        };
+        Spectra {
+            base: fourier(&basis.fixed),
+            parts: basis.vars.iter().map(|var| fourier(var)).collect(),
+            weights: basis
+                .vars
+                .iter()
+                .map(|var| var.iter().map(|&(_, c)| c as i64).sum())
+                .collect(),
+            fixed_sum: basis.fixed.iter().map(|&(_, c)| c as i64).sum(),
+        }
+    }
+
+    fn row_sum(&self, b: u64) -> i64 {
+        let s: i64 = (0..self.weights.len())
+            .map(|j| {
+                if b >> j & 1 == 1 {
+                    -self.weights[j]
+                } else {
+                    self.weights[j]
+                }
+            })
+            .sum();
+        s + self.fixed_sum
+    }
+
+    /// The candidate of sign choice `b` if its power spectrum is ≤ 4v at every probe.
+    fn candidate(&self, basis: &Basis, b: u64, probes: &[usize]) -> Option<Seq> {
+        let v = basis.v;
+        let limit = 4.0 * v as f64 + 1e-6;
+        let mut psd = Vec::with_capacity(probes.len());
+        for (p, &(re0, im0)) in self.base.iter().enumerate() {
+            let (mut re, mut im) = (re0, im0);
+            for (j, part) in self.parts.iter().enumerate() {
+                let (pr, pi) = part[p];
+                if b >> j & 1 == 1 {
+                    re -= pr;
+                    im -= pi;
+                } else {
+                    re += pr;
+                    im += pi;
+                }
+            }
+            let x = re * re + im * im;
+            if x > limit {
+                return None;
+            }
+            psd.push(x);
+        }
+        let a = basis.expand(b);
+        let paf = probes
+            .iter()
+            .map(|&s| (0..v).map(|i| a[i] * a[(i + s) % v]).sum())
+            .collect();
+        Some(Seq { bits: b, paf, psd })
+    }
+}
+
 /// The candidates of one block type and row sum: the sign choices whose sequence has that sum
 /// and a power spectrum ≤ 4v at every probe frequency, sorted by bits.
 fn basis_sequences_with_sum(basis: &Basis, sum: i64, probes: &[usize]) -> Vec<Seq> {
-    let v = basis.v;
-    let (cos, sin) = unit_circle(v);
-    let fourier = |part: &[(usize, i32)]| -> Vec<(f64, f64)> {
-        probes
-            .iter()
-            .map(|&k| {
-                part.iter().fold((0.0, 0.0), |(re, im), &(x, c)| {
-                    let t = x * k % v;
-                    (re + c as f64 * cos[t], im + c as f64 * sin[t])
-                })
-            })
-            .collect()
-    };
-    let base = fourier(&basis.fixed);
-    let parts: Vec<Vec<(f64, f64)>> = basis.vars.iter().map(|var| fourier(var)).collect();
-    let weights: Vec<i64> = basis
-        .vars
-        .iter()
-        .map(|var| var.iter().map(|&(_, c)| c as i64).sum())
-        .collect();
-    let fixed_sum: i64 = basis.fixed.iter().map(|&(_, c)| c as i64).sum();
-    let limit = 4.0 * v as f64 + 1e-6;
+    let spectra = Spectra::new(basis, probes);
     let k = basis.vars.len();
     let total = 1u64 << k;
     let chunk = 1u64 << k.saturating_sub(8);
     let mut out: Vec<Seq> = (0..total.div_ceil(chunk))
         .into_par_iter()
         .flat_map_iter(|c| {
-            let (base, parts, weights) = (&base, &parts, &weights);
+            let spectra = &spectra;
             (c * chunk..((c + 1) * chunk).min(total))
-                .filter(move |&b| {
-                    let s: i64 = (0..k)
-                        .map(|j| {
-                            if b >> j & 1 == 1 {
-                                -weights[j]
-                            } else {
-                                weights[j]
-                            }
-                        })
-                        .sum();
-                    s + fixed_sum == sum
-                })
-                .filter_map(move |b| {
-                    let mut psd = Vec::with_capacity(probes.len());
-                    for (p, &(re0, im0)) in base.iter().enumerate() {
-                        let (mut re, mut im) = (re0, im0);
-                        for (j, part) in parts.iter().enumerate() {
-                            let (pr, pi) = part[p];
-                            if b >> j & 1 == 1 {
-                                re -= pr;
-                                im -= pi;
-                            } else {
-                                re += pr;
-                                im += pi;
-                            }
-                        }
-                        let x = re * re + im * im;
-                        if x > limit {
-                            return None;
-                        }
-                        psd.push(x);
-                    }
-                    let a = basis.expand(b);
-                    let paf = probes
-                        .iter()
-                        .map(|&s| (0..v).map(|i| a[i] * a[(i + s) % v]).sum())
-                        .collect();
-                    Some(Seq { bits: b, paf, psd })
-                })
+                .filter(move |&b| spectra.row_sum(b) == sum)
+                .filter_map(move |b| spectra.candidate(basis, b, probes))
         })
         .collect();
     out.sort_by_key(|s| s.bits);
@@ -705,6 +728,19 @@ fn leaders(all: &[Seq], maps: &[(Vec<usize>, Vec<bool>)]) -> Vec<usize> {
             })
         })
         .map(|(i, _)| i)
+        .collect()
+}
+
+/// One shift (and frequency) of each orbit of ⟨H, −1⟩ on the nonzero residues: where PAF and
+/// power spectrum of an H-invariant sequence are compared.
+fn probes_of(v: usize, h: &[usize]) -> Vec<usize> {
+    let mut with_minus: Vec<usize> = h.iter().flat_map(|&x| [x, v - x]).collect();
+    with_minus.sort_unstable();
+    with_minus.dedup();
+    orbits(v, &with_minus)
+        .iter()
+        .skip(1)
+        .map(|o| o[0])
         .collect()
 }
 
@@ -860,14 +896,7 @@ impl GsSearch {
         let symmetric = types
             .iter()
             .all(|&t| t == BlockType::Symmetric || (minus_one_in_h && t == BlockType::Any));
-        let mut with_minus: Vec<usize> = h.iter().flat_map(|&x| [x, v - x]).collect();
-        with_minus.sort_unstable();
-        with_minus.dedup();
-        let probes: Vec<usize> = self::orbits(v, &with_minus)
-            .iter()
-            .skip(1)
-            .map(|o| o[0])
-            .collect();
+        let probes = probes_of(v, &h);
         let reps = coset_representatives(v, &h);
         let mut cache: Vec<RowsOf> = Vec::new();
         let mut lead_cache: Vec<RowsOf> = Vec::new();
@@ -1213,6 +1242,238 @@ mod tests {
             assert!(
                 cat.goethals_seidel[0].data.is_valid() && cat.goethals_seidel[0].data.v() == 73
             );
+        }
+    }
+}
+
+#[cfg(test)]
+mod typed_tests {
+    use super::*;
+    use crate::construct::sequences::from_text;
+    use crate::search::run_to_end;
+    use std::collections::{BTreeSet, HashMap};
+
+    fn paf(a: &[i8], s: usize) -> i64 {
+        let v = a.len();
+        (0..v).map(|i| a[i] as i64 * a[(i + s) % v] as i64).sum()
+    }
+
+    /// The class of a quadruple under what the typed search identifies: the multiplier maps
+    /// x → ux (u a unit; applied to all four blocks), negating a symmetric or untyped block, and
+    /// exchanging blocks of the same type. The least image, written as text.
+    fn class(q: &[Vec<i8>; 4], types: &[BlockType; 4]) -> String {
+        let v = q[0].len();
+        let mut best: Option<String> = None;
+        for u in (1..v).filter(|&u| gcd(u, v) == 1) {
+            let mut blocks: Vec<(BlockType, Vec<i8>)> = (0..4)
+                .map(|i| {
+                    let mut b = vec![0i8; v];
+                    for x in 0..v {
+                        b[u * x % v] = q[i][x];
+                    }
+                    let sum: i64 = b.iter().map(|&x| x as i64).sum();
+                    if types[i] != BlockType::Skew && sum < 0 {
+                        b.iter_mut().for_each(|x| *x = -*x);
+                    }
+                    (types[i], b)
+                })
+                .collect();
+            blocks.sort();
+            let text = blocks
+                .iter()
+                .map(|(t, b)| format!("{}:{}", t.name(), crate::construct::sequences::to_text(b)))
+                .collect::<Vec<_>>()
+                .join(" ");
+            if best.as_ref().is_none_or(|b| text < *b) {
+                best = Some(text);
+            }
+        }
+        best.unwrap()
+    }
+
+    /// Every quadruple of the given types fixed by H = ⟨g⟩, by brute force straight from the
+    /// definitions (no bases, no probes, no spectrum), as classes.
+    fn brute_force(v: usize, g: usize, types: &[BlockType; 4]) -> BTreeSet<String> {
+        let h = multiplier_group(v, g);
+        let orb = orbits(v, &h);
+        let all: Vec<Vec<i8>> = (0..1u64 << orb.len())
+            .map(|b| {
+                expand_orbits(v, &orb, b)
+                    .into_iter()
+                    .map(|x| x as i8)
+                    .collect()
+            })
+            .collect();
+        let of_type = |t: BlockType| -> Vec<(Vec<i8>, Vec<i64>)> {
+            all.iter()
+                .filter(|a| {
+                    let probe = GsQuadruple {
+                        a: [(*a).clone(), (*a).clone(), (*a).clone(), (*a).clone()],
+                    };
+                    check_structure(&probe, &[g], &[t; 4]).is_ok()
+                })
+                .map(|a| (a.clone(), (1..v).map(|s| paf(a, s)).collect()))
+                .collect()
+        };
+        let lists: Vec<_> = types.iter().map(|&t| of_type(t)).collect();
+        let mut pairs: HashMap<Vec<i64>, Vec<(usize, usize)>> = HashMap::new();
+        for (k, c) in lists[2].iter().enumerate() {
+            for (l, d) in lists[3].iter().enumerate() {
+                let key: Vec<i64> = c.1.iter().zip(&d.1).map(|(x, y)| -(x + y)).collect();
+                pairs.entry(key).or_default().push((k, l));
+            }
+        }
+        let mut out = BTreeSet::new();
+        for a in &lists[0] {
+            for b in &lists[1] {
+                let key: Vec<i64> = a.1.iter().zip(&b.1).map(|(x, y)| x + y).collect();
+                for &(k, l) in pairs.get(&key).map_or(&[][..], |p| p) {
+                    let q = [
+                        a.0.clone(),
+                        b.0.clone(),
+                        lists[2][k].0.clone(),
+                        lists[3][l].0.clone(),
+                    ];
+                    assert!(GsQuadruple { a: q.clone() }.is_valid());
+                    out.insert(class(&q, types));
+                }
+            }
+        }
+        out
+    }
+
+    fn found_classes(v: usize, g: usize, types: [BlockType; 4]) -> BTreeSet<String> {
+        let search = GsSearch::with_types(v, &[g], types).unwrap();
+        run_to_end(&search, None)
+            .iter()
+            .map(|line| {
+                let mut cat = crate::seed::SeedCatalogue::default();
+                cat.add_text("result", &format!("{line} | test; 2026-12-03"));
+                assert!(cat.rejected.is_empty(), "{:?}", cat.rejected);
+                let q = cat.goethals_seidel[0].data.clone();
+                assert!(check_structure(&q, &[g], &types).is_ok(), "{line}");
+                class(&q.a, &types)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn a_typed_search_finds_a_quadruple_of_every_class_that_brute_force_finds() {
+        // The Goethals–Seidel condition (PAF sum 0 at every nonzero shift; Goethals and Seidel,
+        // J. Austral. Math. Soc. 11, 1970) checked by brute force over every H-invariant
+        // sequence of each type; the search, with its bases, probes, spectral filter, row-sum
+        // assignment and multiplier leaders, must reach every class. v = 19, H = ⟨7⟩ = {1, 7, 11}
+        // (7³ = 343 = 18·19 + 1), −1 ∉ H: 7 orbits, 4 symmetric signs, 3 skew-type signs.
+        for types in ["sym,sym,sym,any", "skew,sym,sym,sym", "skew,any,sym,any"] {
+            let t = parse_types(types).unwrap();
+            let brute = brute_force(19, 7, &t);
+            assert!(!brute.is_empty(), "{types}");
+            assert_eq!(found_classes(19, 7, t), brute, "{types}");
+        }
+    }
+
+    #[test]
+    fn types_parse_and_impossible_shapes_are_refused() {
+        assert_eq!(
+            parse_types("sym, skew,any,symmetric"),
+            Ok([
+                BlockType::Symmetric,
+                BlockType::Skew,
+                BlockType::Any,
+                BlockType::Symmetric
+            ])
+        );
+        assert!(parse_types("sym,sym,any").unwrap_err().contains("four"));
+        assert!(parse_types("sym,sym,any,odd")
+            .unwrap_err()
+            .contains("block 4"));
+        // −1 ∈ ⟨7⟩ mod 43 (7 has order 6, 7³ ≡ −1): no block can be skew-type.
+        assert!(matches!(
+            GsSearch::with_types(43, &[7], parse_types("skew,sym,sym,sym").unwrap()),
+            Err(ShapeError::SkewImpossible { block: 0, .. })
+        ));
+        // Even v: v/2 = −v/2, so no skew-type block.
+        assert!(matches!(
+            GsSearch::with_types(46, &[3], parse_types("any,any,any,skew").unwrap()),
+            Err(ShapeError::SkewImpossible { block: 3, .. })
+        ));
+    }
+
+    /// Known quadruples, copied from `shared/data/gs/gs_v067_order268.txt`,
+    /// `gs_v127_order508.txt` and `gs_v163_order652.txt` (the project brief's checked data,
+    /// found by a separate search written in C, each file stating its group and types).
+    const KNOWN: [(usize, usize, &str, [&str; 4]); 3] = [
+        (
+            67,
+            29,
+            "sym,sym,sym,any",
+            [
+                "-++++-++-+----++--++++-+---+-++--++--++-+---+-++++--++----+-++-++++",
+                "-+++-+-+++-+++--+---+--+-+--++++----++++--+-+--+---+--+++-+++-+-+++",
+                "+--+--+---+-++-+-+-+++++++++----++++----+++++++++-+-+-++-+---+--+--",
+                "++--+++--+++--++++-+-++++-+--++--+++-++-++-+---++++++---+---+-+-+++",
+            ],
+        ),
+        (
+            127,
+            2,
+            "skew,sym,sym,sym",
+            [
+                "+----+---+++-+-+-++-+++---++--++-+++++--+++-+----+-++-+-----+-++--+-+++++-+--+-++++-+---++-----+--++--+++---+--+-+-+---+++-++++",
+                "-++-+---++-+-+--+++--+++--+--+--+-++++-+-++++++--+--++-+-+++---++---+++-+-++--+--++++++-+-++++-+--+--+--+++--+++--+-+-++---+-++",
+                "-------+-+-+--++-+++-++--+-++++---+-++++-+++++---+++-++++-+++------+++-++++-+++---+++++-++++-+---++++-+--++-+++-++--+-+-+------",
+                "---+-++--++++----++-+++-+----+-+-++-++-+++++++-+++---+-+--++-++--++-++--+-+---+++-+++++++-++-++-+-+----+-+++-++----++++--++-+--",
+            ],
+        ),
+        (
+            163,
+            40,
+            "sym,any,any,any",
+            [
+                "--+--+-+-++-++--+-+-----+-++---+++++++---++-+++++-++--+-++--+++++-+++---+-+++--++--++--+++-+---+++-+++++--++-+--++-+++++-++---+++++++---++-+-----+-+--++-++-+-+--+-",
+                "+--++---+++++-+-+++-----+-+-+---++++-----++++-++-+++--+-++--+-++--+-++-+-+++---+---++-+++-+++-+++++-+------+----+++---++++-------+++------++-++--+-+-+-++-+-++-+++-",
+                "+---------+-+--+---++--++-+--++----++--+-++-+-++--+++-++-+-++++-+--+--+-+-+---+--++++--+++-+-+-+++--++---+-+++++---+--+---+++++-+++++-+-++-----+++-++-+--++-+-+--++",
+                "+----++-+-+-++-+-+---++++++++-++---+++-+-++-+---+-++--++---+-++-++-+----+-+--++--+--+-+-++-+-+-++++++++--+-+-+++---+------++-++++++++-+++++--+++++++--+--+++-++---+",
+            ],
+        ),
+    ];
+
+    #[test]
+    fn the_known_solutions_pass_the_structure_check_and_the_search_bookkeeping() {
+        for (v, g, types, rows) in KNOWN {
+            let t = parse_types(types).unwrap();
+            let q = GsQuadruple {
+                a: rows.map(|r| from_text(r).unwrap()),
+            };
+            assert!(q.v() == v && q.is_valid(), "v = {v}");
+            assert_eq!(check_structure(&q, &[g], &t), Ok(()), "v = {v}");
+            // One wrong entry (and its orbit) breaks the identity and the structure.
+            let mut bad = q.clone();
+            bad.a[3][1] = -bad.a[3][1];
+            assert!(!bad.is_valid() && check_structure(&bad, &[g], &t).is_err());
+            // Each block is spanned by its type's basis, and it (or its negative: the search
+            // takes row sums ≥ 0 for symmetric and untyped blocks) is in the candidate list
+            // of its row sum, so the search would meet it.
+            let h = multiplier_group(v, g);
+            let orb = orbits(v, &h);
+            let probes = probes_of(v, &h);
+            for (i, row) in q.a.iter().enumerate() {
+                let basis = Basis::new(v, &orb, t[i], i).unwrap();
+                let mut row = row.clone();
+                let sum: i64 = row.iter().map(|&x| x as i64).sum();
+                if sum < 0 {
+                    row.iter_mut().for_each(|x| *x = -*x);
+                }
+                let bits = basis.bits_of(&row).expect("spanned by its basis");
+                let spectra = Spectra::new(&basis, &probes);
+                assert_eq!(spectra.row_sum(bits), sum.abs(), "v = {v}, block {i}");
+                assert!(spectra.candidate(&basis, bits, &probes).is_some());
+            }
+            // The skew-type first block of v = 127 makes the Goethals–Seidel matrix
+            // skew-Hadamard (H + Hᵀ = 2I; Goethals and Seidel 1970), as core's exact check says.
+            let built = crate::construct::goethals_seidel::goethals_seidel(&q).unwrap();
+            let skew = crate::verify::properties(built.matrix()).skew;
+            assert_eq!(skew, t[0] == BlockType::Skew, "v = {v}");
         }
     }
 }
