@@ -19,7 +19,7 @@ fn has_route(info: &OrderInfo, method: Method, reference_part: &str) -> bool {
 #[test]
 fn statuses_of_landmark_orders() {
     use Status::*;
-    // Standard theorem (constructions.md §1): orders other than 1, 2 and multiples of 4 are impossible.
+    // Standard theorem (references.md#r1-impossible-orders): orders other than 1, 2 and multiples of 4 are impossible.
     assert_eq!((status(3), status(6)), (Impossible, Impossible));
     // Sylvester 1867: orders 1 and 2.
     assert_eq!((status(1), status(2)), (Constructible, Constructible));
@@ -29,7 +29,7 @@ fn statuses_of_landmark_orders() {
     assert_eq!((status(668), status(716)), (Open, Open));
     // Đoković, Golubitsky and Kotsireas, J. Combin. Des. 22 (2014): 1004 is known.
     assert_eq!(status(1004), Known);
-    // constructions.md §1: 1336 = 2·668 and 1432 = 2·716 are known orders.
+    // references.md#r4-doubles-of-open-orders: 1336 = 2·668 and 1432 = 2·716 are known orders.
     assert_eq!((status(1336), status(1432)), (Known, Known));
 }
 
@@ -110,7 +110,7 @@ fn classical_constructions_cover_most_orders_up_to_1208() {
         .count();
     // The brief's target: at least 230 of the 298 known orders up to 1208.
     assert!(n >= 230, "{n}");
-    // constructions.md §2 #5: conference products add 520, 952 over Sylvester, Paley and Kronecker.
+    // references.md#r5-the-conference-matrix-product: conference products add 520, 952 over Sylvester, Paley and Kronecker.
     let mut without = Planner::only(&[Sylvester, PaleyOne, PaleyTwo, Kronecker]);
     for n in [520, 952] {
         assert_eq!(
@@ -122,7 +122,7 @@ fn classical_constructions_cover_most_orders_up_to_1208() {
         assert_eq!(route.method, ConferenceProduct, "{n}");
         assert_eq!(build(&route).unwrap().order() as u64, n);
     }
-    // constructions.md §1: Paley and Kronecker cover every multiple of 4 up to 100 except 92.
+    // references.md#r2-paley-and-kronecker-up-to-100: Paley and Kronecker cover every multiple of 4 up to 100 except 92.
     for n in (4..=100).step_by(4) {
         assert_eq!(without.status(n) == Status::Constructible, n != 92, "{n}");
     }
@@ -130,7 +130,7 @@ fn classical_constructions_cover_most_orders_up_to_1208() {
 
 #[test]
 fn dimensions_for_ml_users() {
-    // constructions.md §7: 13696 = 32·428, 10944 = 16·684, 3584 = 128·28, 1152 = 32·36.
+    // references.md#r11-dimensions-users-ask-for: 13696 = 32·428, 10944 = 16·684, 3584 = 128·28, 1152 = 32·36.
     for (d, a, m0) in [
         (13696, 5, 428),
         (10944, 4, 684),
