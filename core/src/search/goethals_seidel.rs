@@ -579,6 +579,17 @@ impl Basis {
             .then_some(bits)
     }
 
+    /// True when some sign choice has row sum `sum` (a subset-sum over the parts' weights).
+    fn reaches(&self, sum: i64) -> bool {
+        let mut sums: std::collections::BTreeSet<i64> =
+            [self.fixed.iter().map(|&(_, c)| c as i64).sum()].into();
+        for var in &self.vars {
+            let w: i64 = var.iter().map(|&(_, c)| c as i64).sum();
+            sums = sums.iter().flat_map(|&t| [t + w, t - w]).collect();
+        }
+        sums.contains(&sum)
+    }
+
     /// The number of free signs.
     pub fn len(&self) -> usize {
         self.vars.len()
@@ -903,6 +914,11 @@ impl GsSearch {
         let mut decompositions = Vec::new();
         for sums in four_squares(4 * v as i64, v as i64 % 2) {
             for s in typed_sums(sums, &types) {
+                // Orbit sizes often leave some block no sign choice with its row sum: skip the
+                // decomposition before any candidate list is made.
+                if (0..4).any(|i| !bases[i].reaches(s[i])) {
+                    continue;
+                }
                 let mut get = |i: usize| -> Arc<Vec<Seq>> {
                     let k = (types[i], s[i]);
                     if let Some((_, r)) = cache.iter().find(|(t, _)| *t == k) {
