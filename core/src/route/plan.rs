@@ -24,7 +24,8 @@ pub(crate) mod refs {
         "Turyn, J. Combin. Theory A 16 (1974) [recalled]: T-sequences in the Goethals–Seidel array";
     pub const COOPER_WALLIS: &str = "Cooper and Wallis, Bull. Austral. Math. Soc. 7 (1972) [recalled]: T-sequences with Williamson matrices";
     pub const SKEW_DOUBLING: &str = "a skew matrix of order h doubles to a skew matrix of order 2h (standard [recalled]; the block form is derived and verified in construct::skew)";
-    pub const MIYAMOTO: &str = "Miyamoto, J. Combin. Theory A 57 (1991) [recalled]";
+    pub const MIYAMOTO: &str = "Miyamoto, J. Combin. Theory A 57 (1991) 86–108: order 4q from a prime power q ≡ 1 mod 4 and any order q − 1 (the array is this program's own, construct::miyamoto)";
+    pub const MIYAMOTO_YAMADA: &str = "Yamada's first theorem (Yamada, J. Austral. Math. Soc. A 46 (1989)) as the case K = H₂ ⊗ H_{(q−1)/2} of Miyamoto, J. Combin. Theory A 57 (1991) 86–108 (the array is this program's own, construct::miyamoto)";
     pub const YAMADA: &str = "Yamada, J. Austral. Math. Soc. A 46 (1989)";
     pub const GOLAY: &str = "Golay, IRE Trans. Inform. Theory 7 (1961) [recalled]";
     pub const GOLAY_PRODUCT: &str =
@@ -726,25 +727,38 @@ impl Planner {
 
     fn miyamoto_yamada(&mut self, n: u64, out: &mut Vec<Route>) {
         let q = n / 4;
-        if prime_power(q).is_some() && q % 4 == 1 {
-            if let Some(h) = self.best(q - 1) {
+        if q % 4 == 1 && prime_power(q).is_some() {
+            let direct = self.best(q - 1);
+            if let Some(h) = &direct {
                 out.push(route(step(
                     Method::Miyamoto,
                     n,
                     vec![("q", json!(q))],
                     refs::MIYAMOTO,
-                    vec![h.tree],
+                    vec![h.tree.clone()],
                 )));
             }
+            // Yamada's first theorem: q ≡ 1 mod 8 and order (q−1)/2, doubled to K of order
+            // q − 1 = 2·((q−1)/2) by a Kronecker product with H₂, then Miyamoto's 4q. Listed
+            // apart only when it is not already the best route to q − 1.
             if q % 8 == 1 {
-                if let Some(h) = self.best((q - 1) / 2) {
-                    out.push(route(step(
-                        Method::Yamada,
-                        n,
-                        vec![("q", json!(q)), ("case", json!("i"))],
-                        refs::YAMADA,
-                        vec![h.tree],
-                    )));
+                if let (Some(two), Some(half)) = (self.best(2), self.best((q - 1) / 2)) {
+                    let doubled = step(
+                        Method::Kronecker,
+                        q - 1,
+                        vec![],
+                        refs::KRONECKER,
+                        vec![two.tree, half.tree],
+                    );
+                    if direct.as_ref().is_none_or(|d| d.tree != doubled) {
+                        out.push(route(step(
+                            Method::Miyamoto,
+                            n,
+                            vec![("q", json!(q))],
+                            refs::MIYAMOTO_YAMADA,
+                            vec![doubled],
+                        )));
+                    }
                 }
             }
         }
@@ -1018,6 +1032,7 @@ fn method_words(m: Method) -> &'static str {
         Method::TSequences => "T-sequences in the Goethals–Seidel array",
         Method::CooperWallis => "the Cooper–Wallis construction",
         Method::SkewDoubling => "skew doubling",
+        Method::Miyamoto => "Miyamoto's 4q theorem",
         _ => "a published construction",
     }
 }

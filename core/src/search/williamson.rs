@@ -402,7 +402,7 @@ impl Search for WilliamsonSearch {
         super::slice_units(
             self.decompositions
                 .iter()
-                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.leaders.len())),
+                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then_some(d.leaders.len())),
         )
     }
 

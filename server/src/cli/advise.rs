@@ -5,8 +5,7 @@
 //! only an m₀×m₀ dense part). `--at-least K` gives the smallest order ≥ K that is known, and the
 //! smallest this program can build.
 
-use hadamard_core::route::{self, OrderInfo};
-use serde_json::json;
+use hadamard_core::route;
 use std::process::ExitCode;
 
 #[derive(clap::Args)]
@@ -54,14 +53,9 @@ pub fn run(args: AdviseArgs) -> ExitCode {
         return ExitCode::SUCCESS;
     }
     let k = args.at_least.unwrap_or(1);
-    let known = route::smallest_known_at_least(k);
-    let built = route::smallest_constructible_at_least(k);
+    let (known, built, v) = hadamard_core::json::smallest_at_least(k);
     if args.json {
-        let short = |o: &Option<OrderInfo>| {
-            o.as_ref()
-                .map(|i| json!({"order": i.order, "status": i.status}))
-        };
-        println!("{}", serde_json::to_string_pretty(&json!({"at_least": k, "smallest_known": short(&known), "smallest_constructible": short(&built)})).unwrap_or_default());
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         match &known {
             Some(i) => println!(
@@ -69,12 +63,24 @@ pub fn run(args: AdviseArgs) -> ExitCode {
                 i.order,
                 status_name(&i.status)
             ),
-            None => println!("no known order ≥ {k} within the planner's reach"),
+            None => println!(
+                "no known order from {k} up to the search limit {}",
+                route::smallest_search_limit(k)
+            ),
         }
-        if let Some(b) = &built {
-            if known.as_ref().map(|i| i.order) != Some(b.order) {
-                println!("smallest this program builds: {}", b.order);
+        match &built {
+            Some(b) if known.as_ref().map(|i| i.order) != Some(b.order) => {
+                println!("smallest this program builds: {}", b.order)
             }
+            Some(_) => {}
+            None if k > route::MAX_BUILD_ORDER => println!(
+                "this program builds nothing at least {k}: its build limit is {}",
+                route::MAX_BUILD_ORDER
+            ),
+            None => println!(
+                "this program builds no order from {k} up to {}",
+                route::smallest_search_limit(k).min(route::MAX_BUILD_ORDER)
+            ),
         }
     }
     ExitCode::SUCCESS
