@@ -210,7 +210,7 @@ pub fn multiplier_choices(v: usize, max_orbits: usize) -> Vec<(Vec<usize>, usize
 fn units_are_cyclic(v: usize) -> bool {
     let odd_prime_power =
         |n: usize| crate::arith::prime_power(n as u64).is_some_and(|(p, _)| p != 2);
-    v <= 4 || odd_prime_power(v) || (v % 2 == 0 && odd_prime_power(v / 2))
+    v <= 4 || odd_prime_power(v) || (v.is_multiple_of(2) && odd_prime_power(v / 2))
 }
 
 /// A unit: a decomposition and a range of its outer sequences.
