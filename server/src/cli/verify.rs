@@ -4,7 +4,7 @@
 //! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
-use super::input::{read_input, InputArgs};
+use super::input::{read_input, InputArgs, InputError};
 use hadamard_core::json;
 use hadamard_core::repair::{Completion, Repair};
 use hadamard_core::verify::{self, Report};
@@ -19,6 +19,10 @@ pub struct VerifyArgs {
     /// How many failing row pairs to list (the total is always counted).
     #[arg(long, default_value_t = verify::DEFAULT_PAIR_CAP)]
     max_pairs: usize,
+    /// The kernel of the check (for measuring them; the verdict never depends on it): best,
+    /// scalar-tiled, popcnt-tiled, avx512-vpopcntdq-tiled, avx2-sliced, avx512-sliced.
+    #[arg(long, value_name = "NAME", default_value = "best")]
+    kernel: String,
     #[command(flatten)]
     input: InputArgs,
     /// The same as --input-format: force the input format (pm, int (csv), bits, json, npy).
@@ -30,12 +34,28 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
     if let Some(f) = args.format.take() {
         args.input.input_format = Some(f);
     }
+    let kernel = match verify::Kernel::from_name(&args.kernel) {
+        Some(k) if k.is_available() => k,
+        Some(k) => {
+            return InputError::Usage(format!("the {k} kernel is not available on this CPU"))
+                .report(args.json)
+        }
+        None => {
+            let names: Vec<&str> = verify::Kernel::ALL.iter().map(|k| k.name()).collect();
+            return InputError::Usage(format!(
+                "unknown kernel `{}`: use best or one of {}",
+                args.kernel,
+                names.join(", ")
+            ))
+            .report(args.json);
+        }
+    };
     let parsed = match read_input(&args.input) {
         Ok(p) => p,
         Err(e) => return e.report(args.json),
     };
     let start = Instant::now();
-    let report = verify::verify_with_cap(&parsed.matrix, args.max_pairs);
+    let report = verify::verify_with(&parsed.matrix, args.max_pairs, kernel);
     let elapsed = start.elapsed();
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
     let follow = json::follow_up(&parsed.matrix, &parsed.erasures, &report);
