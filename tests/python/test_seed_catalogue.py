@@ -6,7 +6,8 @@ published definition, and checked:
   [−D, −C, B, A]] of symmetric circulants is Hadamard of order 4m (Williamson, Duke Math. J. 11,
   1944; the array is common practice).
 - Goethals–Seidel quadruples: the Goethals–Seidel array with the back-identity R (Goethals and
-  Seidel, J. Austral. Math. Soc. 11, 1970 [recalled]) is Hadamard of order 4v.
+  Seidel, J. Austral. Math. Soc. 11, 1970 [recalled]) is Hadamard of order 4v, and
+  skew-Hadamard when the first sequence is skew-type.
 - Golay pairs, base sequences, Turyn-type sequences and T-sequences: their aperiodic
   autocorrelations, from numpy.correlate, sum to zero at every nonzero shift (Golay, IRE Trans.
   Inf. Theory 7, 1961; Turyn, J. Combin. Theory A 16, 1974; both [recalled]).
@@ -60,8 +61,11 @@ def naf(a, s):
 
 
 def is_hadamard(h):
+    # In float64 (BLAS): every entry of H @ H.T is an integer of size at most n < 2^53, so the
+    # product is exact, and order 1852 takes a fraction of a second instead of a minute in int64.
     n = h.shape[0]
-    return h.shape == (n, n) and np.array_equal(h @ h.T, n * np.eye(n, dtype=np.int64))
+    f = h.astype(np.float64)
+    return h.shape == (n, n) and np.array_equal(f @ f.T, n * np.eye(n))
 
 
 def test_every_entry_has_a_dated_provenance():
@@ -91,6 +95,12 @@ def test_entry_satisfies_its_defining_identity(where, kind, f):
             ]
         )
         assert is_hadamard(h), where
+        # A skew-type first row (a[0] = +1, a[-x] = -a[x]) makes the matrix skew-Hadamard,
+        # H + H^T = 2I: the reason for the array (Goethals and Seidel 1970, title "A skew
+        # Hadamard matrix of order 36" [recalled]). The catalogue's v = 127 entry is one.
+        a = seq(f["a"])
+        if a[0] == 1 and np.array_equal(a[1:], -a[1:][::-1]):
+            assert np.array_equal(h + h.T, 2 * np.eye(h.shape[0], dtype=np.int64)), where
     else:
         keys = {"golay": "ab", "base": "abcd", "turyn": "abcd", "tseq": ["t1", "t2", "t3", "t4"]}[kind]
         weights = [1, 1, 2, 2] if kind == "turyn" else [1] * len(keys)
@@ -116,3 +126,10 @@ def test_orders_from_the_entries_build_and_numpy_agrees(tmp_path, n):
     r = subprocess.run([BIN, "build", str(n), "--format", "npy", "-o", str(out)], capture_output=True, timeout=300)
     assert r.returncode == 0, (n, r.stderr)
     assert is_hadamard(np.load(out).astype(np.int64)), n
+
+
+def test_the_catalogue_has_a_skew_type_goethals_seidel_entry():
+    # The v = 127 quadruple from `hadamard search gs --types skew,sym,sym,sym` gives a skew
+    # Hadamard matrix of order 508; the identity test above checks H + H^T = 2I for it.
+    skew = [w for w, k, f, _ in ENTRIES if k == "gs" and (lambda a: a[0] == 1 and np.array_equal(a[1:], -a[1:][::-1]))(seq(f["a"]))]
+    assert skew

@@ -208,6 +208,14 @@ impl GsQuadruple {
     }
 }
 
+/// True when a ±1 sequence is skew-type: a₀ = +1 and a₋ₓ = −aₓ (indices mod v) for x ≠ 0. As
+/// the first row of A₀ in the Goethals–Seidel array it makes the matrix skew-Hadamard
+/// (H + Hᵀ = 2I): A₀ + A₀ᵀ = 2I, and the off-diagonal blocks pair up as X and −Xᵀ.
+pub fn is_skew_type(a: &[i8]) -> bool {
+    let v = a.len();
+    v > 0 && a[0] == 1 && (1..v).all(|x| a[v - x] == -a[x])
+}
+
 /// Writes a (0, ±1) sequence as text: `+`, `-` and `0`.
 pub fn to_text(a: &[i8]) -> String {
     a.iter()

@@ -299,7 +299,19 @@ fn index_name(kind: &str) -> &'static str {
 }
 
 fn is_skew(s: &Step) -> bool {
-    matches!(s.method, Method::PaleyOne | Method::SkewDoubling)
+    matches!(s.method, Method::PaleyOne | Method::SkewDoubling) || gs_first_block_skew(s)
+}
+
+/// True for a Goethals–Seidel step whose first sequence is skew-type (a₀ = +1, a₋ₓ = −aₓ):
+/// its matrix is then skew-Hadamard, the case Goethals and Seidel built their array for.
+fn gs_first_block_skew(s: &Step) -> bool {
+    s.method == Method::GoethalsSeidel
+        && s.children
+            .first()
+            .and_then(|c| c.params.get("a"))
+            .and_then(Value::as_str)
+            .and_then(|t| crate::construct::sequences::from_text(t).ok())
+            .is_some_and(|a| crate::construct::sequences::is_skew_type(&a))
 }
 
 /// Turns a matrix-yielding tree into a ranked route.
@@ -591,22 +603,8 @@ impl Planner {
                 vec![w],
             )));
         }
-        if let Some(e) = self.seeds.gs.get(&quarter) {
-            let [a, b, c, d] = &e.data.a;
-            let leaf = step(
-                Method::Seed,
-                quarter,
-                seq_params("gs", e, &[("a", a), ("b", b), ("c", c), ("d", d)]),
-                &e.provenance,
-                vec![],
-            );
-            out.push(route(step(
-                Method::GoethalsSeidel,
-                n,
-                vec![("v", json!(quarter))],
-                refs::GOETHALS_SEIDEL,
-                vec![leaf],
-            )));
+        if let Some(gs) = self.goethals_seidel(n) {
+            out.push(route(gs));
         }
         if let Some(t) = self.t_source(quarter) {
             out.push(route(step(
@@ -678,12 +676,38 @@ impl Planner {
         })
     }
 
+    /// The Goethals–Seidel array on the seed quadruple of length n/4, if the catalogue has one.
+    fn goethals_seidel(&self, n: u64) -> Option<Step> {
+        let quarter = n / 4;
+        let e = self
+            .seeds
+            .gs
+            .get(&quarter)
+            .filter(|_| n.is_multiple_of(4))?;
+        let [a, b, c, d] = &e.data.a;
+        let leaf = step(
+            Method::Seed,
+            quarter,
+            seq_params("gs", e, &[("a", a), ("b", b), ("c", c), ("d", d)]),
+            &e.provenance,
+            vec![],
+        );
+        Some(step(
+            Method::GoethalsSeidel,
+            n,
+            vec![("v", json!(quarter))],
+            refs::GOETHALS_SEIDEL,
+            vec![leaf],
+        ))
+    }
+
     /// A skew route to order h: Paley I, or skew doubling of a skew route to h/2.
     fn skew_route(&mut self, h: u64) -> Option<Step> {
         if let Some(s) = self.skew.get(&h) {
             return s.clone();
         }
-        let s = self.paley_one(h).or_else(|| {
+        let gs = self.goethals_seidel(h).filter(gs_first_block_skew);
+        let s = self.paley_one(h).or(gs).or_else(|| {
             (h.is_multiple_of(8))
                 .then(|| self.skew_route(h / 2))
                 .flatten()

@@ -88,6 +88,12 @@ enum Kind {
         /// group two multipliers generate. Without it, v > 40 lists the groups there are.
         #[arg(long, value_name = "G", value_delimiter = ',')]
         multiplier: Option<Vec<usize>>,
+        /// With --multiplier: the type of each of the four blocks, e.g. `sym,sym,sym,any`:
+        /// `sym` (aₓ = a₋ₓ), `skew` (a₀ = +1, a₋ₓ = −aₓ; a skew first block gives a
+        /// skew-Hadamard matrix) or `any`. Also when −1 is not a multiplier. Only one quadruple
+        /// per class under the other multipliers is tried.
+        #[arg(long, value_name = "T,T,T,T", requires = "multiplier")]
+        types: Option<String>,
         #[command(flatten)]
         what: What,
         #[command(flatten)]
@@ -206,11 +212,26 @@ pub fn run(args: SearchArgs) -> ExitCode {
         Kind::Gs {
             v,
             multiplier,
+            types,
             what,
             common,
         } => {
+            let typed = match types
+                .as_deref()
+                .map(goethals_seidel::parse_types)
+                .transpose()
+            {
+                Ok(t) => t,
+                Err(e) => {
+                    eprintln!("error: --types: {e}");
+                    return ExitCode::from(2);
+                }
+            };
             let s = match multiplier {
-                Some(g) => match goethals_seidel::GsSearch::with_multipliers(v, &g) {
+                Some(g) => match match typed {
+                    Some(t) => goethals_seidel::GsSearch::with_types(v, &g, t),
+                    None => goethals_seidel::GsSearch::with_multipliers(v, &g),
+                } {
                     Ok(s) => s,
                     Err(e) => {
                         eprintln!("error: {e}");
@@ -220,18 +241,30 @@ pub fn run(args: SearchArgs) -> ExitCode {
                 None if (1..=40).contains(&v) => goethals_seidel::GsSearch::new(v),
                 None => {
                     eprintln!("error: --v {v} is too long to search every sequence (at most 40); choose --multiplier G, one of:");
-                    let choices =
-                        goethals_seidel::multiplier_choices(v, goethals_seidel::MAX_ORBITS);
+                    // Groups with more orbits are listed too when −1 is not in them: a search
+                    // whose blocks are all `sym` or `skew` has one sign per pair of orbits.
+                    let max = goethals_seidel::MAX_ORBITS;
+                    let choices: Vec<_> = goethals_seidel::multiplier_choices(v, 2 * max + 1)
+                        .into_iter()
+                        .filter(|(gens, _, orbits)| {
+                            *orbits <= max
+                                || !goethals_seidel::generated_group(v, gens).contains(&(v - 1))
+                        })
+                        .collect();
                     if choices.is_empty() {
                         eprintln!(
-                            "  (none: every group of multipliers mod {v} has more than {} orbits)",
-                            goethals_seidel::MAX_ORBITS
+                            "  (none: every group of multipliers mod {v} has more than {max} orbits)"
                         );
                     }
                     for (gens, size, orbits) in choices {
                         let g: Vec<String> = gens.iter().map(|g| g.to_string()).collect();
+                        let note = if orbits <= max {
+                            format!("(2^{orbits} sequences)")
+                        } else {
+                            "(only with --types of sym and skew blocks)".to_string()
+                        };
                         eprintln!(
-                            "  --multiplier {:<9} a group of {size} multipliers, {orbits} orbits (2^{orbits} sequences)",
+                            "  --multiplier {:<9} a group of {size} multipliers, {orbits} orbits {note}",
                             g.join(",")
                         );
                     }
