@@ -20,6 +20,7 @@ pub mod field;
 pub mod formats;
 pub mod id;
 pub mod matrix;
+pub mod query;
 pub mod repair;
 pub mod route;
 #[cfg(not(target_arch = "wasm32"))]
