@@ -353,7 +353,17 @@ pub async fn download(
     let Some((n, bytes)) = out else {
         return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
     };
-    let filename = format!("hadamard-{n}-{}.{}", &id[..12], format.extension());
+    // Each format has its own name, so the three `.npy` variants never overwrite each other.
+    let filename = match format {
+        WriteFormat::Pm => format!("hadamard-{n}-{}.txt", &id[..12]),
+        WriteFormat::Npy => format!("hadamard-{n}-{}-int8.npy", &id[..12]),
+        _ => format!(
+            "hadamard-{n}-{}-{}.{}",
+            &id[..12],
+            format.name(),
+            format.extension()
+        ),
+    };
     let mut resp = (StatusCode::OK, immutable_headers(&etag), Body::from(bytes)).into_response();
     let h = resp.headers_mut();
     h.insert(
