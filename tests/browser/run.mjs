@@ -689,6 +689,13 @@ assert np.allclose(S @ S.T, np.eye(${n})) and np.allclose(S * np.sqrt(${n}), A)`
     const lines = readFileSync(csv.path, 'utf8').trim().split('\n');
     eq(lines[0], 'order,status', 'CSV header');
     assert(lines.includes('668,open'), 'CSV lists 668 as open');
+    // The hidden file input shows its keyboard focus on its label, "Choose a file…".
+    await page.goto(server.url + '/verify');
+    await page.waitForSelector('#matrix-file', { state: 'attached' });
+    await page.click('main h1');
+    for (let i = 0; i < 40 && await page.evaluate(() => document.activeElement?.id) !== 'matrix-file'; i++) await page.keyboard.press('Tab');
+    eq(await page.evaluate(() => document.activeElement?.id), 'matrix-file', 'the file input is a tab stop');
+    eq(await page.$eval('label[for="matrix-file"]', (l) => getComputedStyle(l).outlineStyle), 'solid', 'its label shows the focus ring');
   });
 
   await test('cold visit: gzip and validators; a reload transfers only the page shell', async (page) => {
