@@ -122,10 +122,14 @@ fn accepts_gzip(headers: &HeaderMap) -> bool {
 
 /// Serves an asset: 304 when the browser holds this version, gzip when it accepts it.
 pub async fn serve(a: Asset, headers: &HeaderMap) -> Response {
-    // The first request of a process compresses the file (tens of milliseconds for the app).
-    let p = match tokio::task::spawn_blocking(move || prepare(a)).await {
-        Ok(p) => p,
-        Err(_) => return ApiError::internal("internal error; it is logged").into_response(),
+    // The first request of a process compresses the file (tens of milliseconds for the app),
+    // off the async threads; later ones find it ready.
+    let p = match PREPARED[a.index()].get() {
+        Some(p) => p,
+        None => match tokio::task::spawn_blocking(move || prepare(a)).await {
+            Ok(p) => p,
+            Err(_) => return ApiError::internal("internal error; it is logged").into_response(),
+        },
     };
     let gzip = accepts_gzip(headers) && !p.gzip.is_empty() && p.gzip.len() < a.bytes().len();
     // A different representation has a different tag (RFC 9110 §8.8.3).

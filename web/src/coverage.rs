@@ -98,6 +98,9 @@ pub fn Coverage() -> impl IntoView {
                     let on_key = move |ev: web_sys::KeyboardEvent| {
                         let per = PER_ROW as usize;
                         let now = active.get_untracked();
+                        if total == 0 {
+                            return;
+                        }
                         let next = match ev.key().as_str() {
                             "ArrowRight" => (now + 1).min(total - 1),
                             "ArrowLeft" => now.saturating_sub(1),

@@ -287,7 +287,7 @@ fn FactorsAnswer(k: u64) -> impl IntoView {
                 (Some(Err(e)), _) | (_, Some(Err(e))) => view! { <p class="bad">{e}</p> }.into_any(),
                 (Some(Ok(n)), Some(Ok(id))) => {
                     let base = format!("/api/matrices/{id}/derive/screening?factors={k}&format=csv");
-                    let seed = u32::from_str_radix(&id[..8], 16).unwrap_or(1);
+                    let seed = u32::from_str_radix(id.get(..8).unwrap_or("1"), 16).unwrap_or(1);
                     let spare = n - 1 - k;
                     view! {
                         {(n != runs).then(|| view! {
@@ -454,9 +454,11 @@ fn UseIt(d: u64, a: u32, m: u64) -> impl IntoView {
                 <li>
                     {if dense_ok {
                         view! {
-                            <a href=format!("/api/orders/{m}/matrix/download?format=npy") download="" data-factor="dense">{format!("Factor H_{m}, NumPy int8 (.npy)")}</a>
-                            " · "<a href=format!("/api/orders/{m}/matrix/download?format=csv") download="" data-factor="dense-csv">"CSV"</a>
-                            " · "<a href=format!("/orders/{m}")>{format!("order {m}")}</a>
+                            <span>
+                                <a href=format!("/api/orders/{m}/matrix/download?format=npy") download="" data-factor="dense">{format!("Factor H_{m}, NumPy int8 (.npy)")}</a>
+                                " · "<a href=format!("/api/orders/{m}/matrix/download?format=csv") download="" data-factor="dense-csv">"CSV"</a>
+                                " · "<a href=format!("/orders/{m}")>{format!("order {m}")}</a>
+                            </span>
                         }.into_any()
                     } else {
                         view! { <span>{format!("Factor H_{m}: above this server's limit of {max}; build it with ")}<code>{format!("hadamard build {m}")}</code></span> }.into_any()

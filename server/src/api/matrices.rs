@@ -357,6 +357,7 @@ pub async fn download(
     let filename = match format {
         WriteFormat::Pm => format!("hadamard-{n}-{}.txt", &id[..12]),
         WriteFormat::Npy => format!("hadamard-{n}-{}-int8.npy", &id[..12]),
+        WriteFormat::Bits { .. } => format!("hadamard-{n}-{}-bits.txt", &id[..12]),
         _ => format!(
             "hadamard-{n}-{}-{}.{}",
             &id[..12],
