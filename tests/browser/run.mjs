@@ -621,7 +621,7 @@ assert np.allclose(S @ S.T, np.eye(${n})) and np.allclose(S * np.sqrt(${n}), A)`
     assert(page.url().includes('/m/' + short.replace('…', '')), `${page.url()} from ${short}`);
   });
 
-  await test('matrix page: order in the heading, "Cite this", equivalence as a page, unknown id not found', async (page) => {
+  await test('matrix page: order in the heading, "Cite this", equivalence as a page', async (page) => {
     const a = (await (await fetch(`${server.url}/api/orders/12/matrix`)).json()).id;
     assert(state.publishedId, 'needs the publish test');
     await page.goto(`${server.url}/m/${a}`);
