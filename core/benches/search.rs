@@ -42,7 +42,7 @@ fn timed<S: Search>(what: &str, s: &S, limit: Option<usize>, batch: usize) -> Ve
 fn main() {
     let quick = std::env::args().any(|a| a == "quick");
     // Published class counts of Williamson quadruples (Holzmann, Kharaghani and Tayfeh-Rezaie,
-    // Des. Codes Cryptogr. 46, 2008) [recalled, constructions.md §3].
+    // Des. Codes Cryptogr. 46, 2008) [references.md#r7-williamson-orders].
     let published = [
         (15, 4),
         (17, 4),
@@ -69,12 +69,12 @@ fn main() {
         );
     }
     if !quick {
-        // None exist for m = 35 (Đoković 1993) [read: constructions.md §3].
+        // None exist for m = 35 (Đoković 1993) [references.md#r7-williamson-orders].
         let s = WilliamsonSearch::new(35, williamson::Mode::Classes, true);
         assert!(timed("williamson m=35 exhaustive (none)", &s, None, 64).is_empty());
     }
     // Published TT(n) class counts (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21,
-    // 2013) [recalled, constructions.md §4].
+    // 2013) [references.md#r8-ttn-counts-and-existence].
     for (n, count) in [(2, 1), (4, 1), (6, 4), (8, 6), (10, 43), (12, 127)] {
         let s = AperiodicSearch::new(Family::Turyn(n), aperiodic::Mode::Classes);
         assert_eq!(
@@ -117,7 +117,7 @@ fn main() {
         );
     }
     // Multiplier-fixed quadruples: the seeds of Williamson m = 41, 43 and 63, and of orders 292
-    // (v = 73) and 1068 (v = 267), all known to exist (constructions.md §1, §3 [recalled]).
+    // (v = 73) and 1068 (v = 267), all known to exist (references.md#r3-open-orders and references.md#r7-williamson-orders).
     for (v, g) in [(41, 9), (43, 7), (63, 5), (73, 2), (267, 2)] {
         let s = hadamard_core::search::goethals_seidel::GsSearch::with_multiplier(v, g)
             .expect("a unit with few orbits");

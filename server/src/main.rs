@@ -55,14 +55,9 @@ enum Command {
 /// like any Unix tool instead of panicking in `println!` (Rust ignores SIGPIPE by default).
 #[cfg(unix)]
 fn default_sigpipe() {
-    extern "C" {
-        fn signal(signum: i32, handler: usize) -> usize;
-    }
-    const SIGPIPE: i32 = 13;
-    const SIG_DFL: usize = 0;
     // SAFETY: setting a signal's action to the default at start-up, before any thread exists.
     unsafe {
-        signal(SIGPIPE, SIG_DFL);
+        libc::signal(libc::SIGPIPE, libc::SIG_DFL);
     }
 }
 
@@ -85,5 +80,112 @@ fn main() -> ExitCode {
         Command::Search(a) => cli::search::run(a),
         Command::Derive(a) => cli::derive::run(a),
         Command::Equiv(a) => cli::equiv::run(a),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use clap::CommandFactory;
+
+    #[test]
+    fn the_command_line_has_no_clashing_options() {
+        // clap's own consistency check (duplicate names, bad defaults, conflicting ids); it is
+        // compiled only with debug assertions, so the walk below checks the names in release too.
+        Cli::command().debug_assert();
+        fn walk(cmd: &clap::Command, path: &str) {
+            let path = format!("{path} {}", cmd.get_name());
+            let mut seen = std::collections::HashSet::new();
+            for a in cmd.get_arguments() {
+                assert!(
+                    seen.insert(format!("id {}", a.get_id())),
+                    "{path}: id {} twice",
+                    a.get_id()
+                );
+                if let Some(l) = a.get_long() {
+                    assert!(
+                        seen.insert(format!("--{l}")),
+                        "{path}: --{l} declared twice"
+                    );
+                }
+                if let Some(c) = a.get_short() {
+                    assert!(seen.insert(format!("-{c}")), "{path}: -{c} declared twice");
+                }
+            }
+            for sub in cmd.get_subcommands() {
+                walk(sub, &path);
+            }
+        }
+        walk(&Cli::command(), "");
+    }
+
+    #[test]
+    fn derive_takes_an_output_format_and_an_input_format() {
+        // Every derive subcommand that reads a matrix: `--format` is the output, `--input-format`
+        // the input, each declared once (the input format used to be shadowed by the output's).
+        let cmd = Cli::command();
+        let derive = cmd.find_subcommand("derive").expect("derive exists");
+        let mut reading = 0;
+        for sub in derive.get_subcommands() {
+            let longs: Vec<&str> = sub.get_arguments().filter_map(|a| a.get_long()).collect();
+            let count = |name: &str| longs.iter().filter(|l| **l == name).count();
+            assert!(count("format") <= 1, "{}: --format twice", sub.get_name());
+            if count("input-format") == 1 {
+                reading += 1;
+            }
+        }
+        assert!(
+            reading >= 5,
+            "derive subcommands reading a matrix: {reading}"
+        );
+        let m = Cli::command()
+            .try_get_matches_from([
+                "hadamard",
+                "derive",
+                "screening",
+                "--factors",
+                "7",
+                "--format",
+                "csv",
+                "--input-format",
+                "int",
+                "h12.csv",
+            ])
+            .expect("both formats parse");
+        let s = m
+            .subcommand_matches("derive")
+            .and_then(|d| d.subcommand_matches("screening"))
+            .expect("derive screening");
+        assert_eq!(
+            s.get_one::<String>("format").map(String::as_str),
+            Some("csv")
+        );
+        assert_eq!(
+            s.get_one::<String>("input_format").map(String::as_str),
+            Some("int")
+        );
+    }
+
+    #[test]
+    fn verify_keeps_format_as_the_input_format() {
+        // The interface fixes `hadamard verify [--format F] PATH`.
+        for flag in ["--format", "--input-format"] {
+            let cli = Cli::try_parse_from(["hadamard", "verify", flag, "npy", "h.npy"])
+                .expect("verify parses");
+            assert!(matches!(cli.command, Command::Verify(_)));
+        }
+        assert!(
+            Cli::try_parse_from([
+                "hadamard",
+                "verify",
+                "--format",
+                "npy",
+                "--input-format",
+                "pm",
+                "h.npy"
+            ])
+            .is_err(),
+            "two input formats at once are refused"
+        );
     }
 }

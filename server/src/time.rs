@@ -1,48 +1,31 @@
 //! Wall-clock timestamps for records, as RFC 3339 UTC text (`2026-12-01T09:30:00.123Z`).
 
-use std::time::{SystemTime, UNIX_EPOCH};
+use std::time::SystemTime;
 
 /// Now, as RFC 3339 UTC with milliseconds.
 pub fn now_rfc3339() -> String {
-    let d = SystemTime::now()
-        .duration_since(UNIX_EPOCH)
-        .unwrap_or_default();
-    format_unix_millis(d.as_millis() as i64)
+    rfc3339_millis(SystemTime::now())
 }
 
-/// Formats milliseconds since the Unix epoch as RFC 3339 UTC.
-pub fn format_unix_millis(ms: i64) -> String {
-    let secs = ms.div_euclid(1000);
-    let millis = ms.rem_euclid(1000);
-    let days = secs.div_euclid(86_400);
-    let rem = secs.rem_euclid(86_400);
-    let (y, m, d) = civil_from_days(days);
-    format!(
-        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}.{millis:03}Z",
-        rem / 3600,
-        rem / 60 % 60,
-        rem % 60
-    )
+fn rfc3339_millis(t: SystemTime) -> String {
+    humantime::format_rfc3339_millis(t).to_string()
 }
 
-/// The proleptic Gregorian date of a day count from 1970-01-01 (Howard Hinnant's
-/// `civil_from_days`, from "chrono-Compatible Low-Level Date Algorithms").
-fn civil_from_days(z: i64) -> (i64, u32, u32) {
-    let z = z + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z.rem_euclid(146_097);
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let y = yoe + era * 400;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = (doy - (153 * mp + 2) / 5 + 1) as u32;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 } as u32;
-    (if m <= 2 { y + 1 } else { y }, m, d)
+/// Today's date in UTC, `YYYY-MM-DD` (for provenance lines).
+pub fn today() -> String {
+    let mut s = humantime::format_rfc3339_seconds(SystemTime::now()).to_string();
+    s.truncate(10);
+    s
 }
 
 #[cfg(test)]
 mod tests {
-    use super::format_unix_millis;
+    use super::rfc3339_millis;
+    use std::time::{Duration, UNIX_EPOCH};
+
+    fn format_unix_millis(ms: u64) -> String {
+        rfc3339_millis(UNIX_EPOCH + Duration::from_millis(ms))
+    }
 
     #[test]
     fn known_instants() {
@@ -56,5 +39,12 @@ mod tests {
             format_unix_millis(1_798_761_599_000),
             "2026-12-31T23:59:59.000Z"
         );
+    }
+
+    #[test]
+    fn today_is_a_date() {
+        let t = super::today();
+        assert_eq!(t.len(), 10);
+        assert_eq!(&super::now_rfc3339()[..10], t);
     }
 }

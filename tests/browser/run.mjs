@@ -496,6 +496,7 @@ try {
     await page.waitForURL('**/?strata=41');
   });
 
+  // 3584 = 128·28 (docs/references.md#r11-dimensions-users-ask-for); 11008 = 64·172.
   for (const [d, a, m] of [[3584, 7, 28], [11008, 6, 172]]) {
     await test(`ML engineer: dimension ${d} = 2^${a}·${m}, the factor downloaded and the NumPy snippet run`, async (page) => {
       await page.goto(server.url + '/');
@@ -580,8 +581,8 @@ assert np.allclose(S @ S.T, np.eye(${n})) and np.allclose(S * np.sqrt(${n}), A)`
     await page.click('#publish');
     await page.click('#publish-confirm');
     await page.waitForSelector('#publish-ok', { timeout: 30_000 });
-    // Every Hadamard matrix of order 12 is equivalent to every other (Todd, 1933; a fact of
-    // the trade), so each candidate the server names must be proved equivalent.
+    // Order 12 has one equivalence class (docs/references.md#r9-equivalence-classes), so each
+    // candidate the server names must be proved equivalent.
     await page.waitForSelector('#equivalence-checks [data-verdict]', { timeout: 60_000 });
     const verdicts = await page.$$eval('#equivalence-checks [data-verdict]', (els) => els.map((e) => e.getAttribute('data-verdict')));
     assert(verdicts.length > 0 && verdicts.every((v) => v === 'equivalent'), `verdicts ${verdicts}`);
@@ -631,7 +632,7 @@ assert np.allclose(S @ S.T, np.eye(${n})) and np.allclose(S * np.sqrt(${n}), A)`
     assert(cite.includes(a) && cite.includes('order 12') && cite.includes(`/m/${a}`) && /\d{4}-\d\d-\d\d/.test(cite), cite);
     await page.fill('#equivalence-other', state.publishedId);
     await page.click('button[data-derived="equivalence"]');
-    eq(await (await page.waitForSelector('.equivalence [data-verdict]', { timeout: 60_000 })).getAttribute('data-verdict'), 'equivalent', 'order 12 (Todd, 1933)');
+    eq(await (await page.waitForSelector('.equivalence [data-verdict]', { timeout: 60_000 })).getAttribute('data-verdict'), 'equivalent', 'order 12 has one class (references.md#r9-equivalence-classes)');
     eq(page.url(), `${server.url}/m/${a}`, 'stayed on the page');
   });
 

@@ -1,7 +1,7 @@
 """`hadamard routes`, `build` and `coverage` against the literature and numpy.
 
 Sources: the open orders ≤ 2000 and the rule that every other multiple of 4 ≤ 2000 is known
-(constructions.md §1: Đoković, Combinatorica 28 (2008), less 1004 (Đoković, Golubitsky and
+(references.md#r3-open-orders: Đoković, Combinatorica 28 (2008), less 1004 (Đoković, Golubitsky and
 Kotsireas, J. Combin. Des. 22 (2014))); the theorem that an order is 1, 2 or a multiple of 4
 [standard]; numpy for H @ H.T == nI on every matrix built.
 """
@@ -48,7 +48,7 @@ def test_routes_json_contract():
         if n != 1336:
             assert o["status"] == status, o
         else:
-            # 1336 = 2·668 is a known order (constructions.md §1) even though 668 is open.
+            # 1336 = 2·668 is a known order (references.md#r4-doubles-of-open-orders) even though 668 is open.
             assert o["status"] in ("known", "constructible")
         for route in o["routes"]:
             assert route["method"] and "reference" in route["tree"]
@@ -67,7 +67,7 @@ def test_every_constructible_order_up_to_300_builds_and_numpy_agrees(tmp_path):
         # numpy: an independent H @ H.T == nI.
         assert h.shape == (n, n) and np.array_equal(h @ h.T, n * np.eye(n)), n
         if n <= 24:
-            # Hadamard's bound is attained exactly by Hadamard matrices (constructions.md §5).
+            # Hadamard's bound is attained exactly by Hadamard matrices (references.md#r12-hadamards-determinant-bound).
             assert abs(abs(np.linalg.det(h)) - n ** (n / 2)) <= 1e-6 * n ** (n / 2)
 
 

@@ -12,7 +12,7 @@ Sources, named again beside each check:
 - sequency and dyadic order: Walsh (1923), Paley (1932), scipy.linalg.hadamard for the
   natural order; no order-12 matrix has every sequency: Webb and Kennedy, IEEE Trans.
   Computers 20(5), 1971;
-- equivalence classes: constructions.md §5 (one class of order 12, five of order 16: Hall).
+- equivalence classes: references.md#r9-equivalence-classes (one class of order 12, five of order 16: Hall).
 """
 
 import csv
@@ -122,7 +122,7 @@ def test_screening_design_refuses_bad_columns(tmp_path):
 @pytest.mark.parametrize("k,order", [(3, 4), (11, 12), (12, 16), (40, 44), (100, 104)])
 def test_brr_replicates_are_balanced_and_orthogonal(k, order):
     r = json.loads(run("derive", "brr", "--strata", k, "--json").stdout)
-    # The smallest known order > k (every multiple of 4 here is known: constructions.md §1).
+    # The smallest known order > k (every multiple of 4 here is known: references.md#r3-open-orders).
     assert r["replicates"] == order == r["smallest_known_order"]
     s = np.array(r["signs"])
     assert s.shape == (order, k)
@@ -277,7 +277,7 @@ def write_pm(path, h):
 
 
 def test_order_12_is_one_class(tmp_path):
-    # constructions.md §5: one class of order 12, so Paley I (q=11) and Paley II (q=5) agree.
+    # references.md#r9-equivalence-classes: one class of order 12, so Paley I (q=11) and Paley II (q=5) agree.
     a, b = built(tmp_path, 12, "paley_one"), built(tmp_path, 12, "paley_two")
     assert check_equiv(a, b)[0] == "equivalent"
     rng = np.random.default_rng(12)
@@ -309,7 +309,7 @@ def random_hadamard_16(rng):
 
 
 def test_order_16_has_five_classes_told_apart_by_an_invariant(tmp_path):
-    # constructions.md §5 (Hall): five classes of order 16.
+    # references.md#r9-equivalence-classes (Hall): five classes of order 16.
     rng = np.random.default_rng(16)
     reps = [built(tmp_path, 16, "sylvester")]
     for k in range(80):
@@ -339,3 +339,12 @@ def test_order_32_sylvester_and_paley(tmp_path):
     # A budget too small to decide says so.
     r = run("equiv", "--json", "--budget", "0", s, write_pm(tmp_path / "scr2.txt", scrambled(load_pm(s), rng)), check=False)
     assert r.returncode == 3 and json.loads(r.stdout)["verdict"] == "undecided"
+
+
+def test_different_orders_are_inequivalent_in_json_too(tmp_path):
+    # Equivalence preserves the order (row and column permutations and negations; common practice).
+    a, b = built(tmp_path, 12), built(tmp_path, 16)
+    r = run("equiv", "--json", a, b, check=False)
+    assert r.returncode == 1
+    out = json.loads(r.stdout)
+    assert out["verdict"] == "inequivalent" and (out["a_order"], out["b_order"]) == (12, 16)

@@ -14,6 +14,7 @@ pub mod conference;
 pub mod cooper_wallis;
 pub mod goethals_seidel;
 pub mod kronecker;
+pub mod miyamoto;
 pub mod paley;
 pub mod sequences;
 pub mod skew;
@@ -67,6 +68,7 @@ pub use conference::conference_product;
 pub use cooper_wallis::cooper_wallis;
 pub use goethals_seidel::goethals_seidel;
 pub use kronecker::kronecker;
+pub use miyamoto::miyamoto;
 pub use paley::{
     hadamard_from_conference, jacobsthal, paley_conference, paley_one, paley_two, Conference,
 };

@@ -583,7 +583,7 @@ mod tests {
 
     #[test]
     fn order_twelve_is_one_class() {
-        // constructions.md §5: every Hadamard matrix of order 12 is equivalent to every other.
+        // references.md#r9-equivalence-classes: every Hadamard matrix of order 12 is equivalent to every other.
         let p1 = paley_one(11).unwrap();
         let p2 = paley_two(5).unwrap();
         let r = equivalence(&p1, &p2, DEFAULT_NODE_BUDGET).unwrap();
@@ -599,7 +599,7 @@ mod tests {
 
     #[test]
     fn order_sixteen_has_five_classes_told_apart_by_the_invariants() {
-        // constructions.md §5 (Hall's classification): five classes of order 16.
+        // references.md#r9-equivalence-classes (Hall's classification): five classes of order 16.
         let mut reps: Vec<Verified> = vec![sylvester(4).unwrap()];
         for seed in 0..60 {
             let h = random_hadamard(16, seed);

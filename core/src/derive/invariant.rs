@@ -201,7 +201,7 @@ mod tests {
 
     #[test]
     fn regression_values_from_constructions_md() {
-        // constructions.md §5 (an independent computation, regression values only).
+        // references.md#r10-the-4-profile (the project's own computation, regression values only).
         assert_eq!(
             profile4(sylvester(3).unwrap().matrix()),
             map(&[(0, 56), (8, 14)])

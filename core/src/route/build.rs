@@ -50,7 +50,9 @@ pub(crate) fn implemented(method: Method, params: &BTreeMap<String, Value>) -> b
         | Method::GolayDoubling => true,
         // A seed leaf is buildable when it carries its sequences (the planner always writes them).
         Method::Seed => params.get("kind").and_then(Value::as_str).is_some(),
-        Method::PaleyOne | Method::PaleyTwo | Method::ConferenceProduct => q_ok(),
+        Method::PaleyOne | Method::PaleyTwo | Method::ConferenceProduct | Method::Miyamoto => {
+            q_ok()
+        }
         Method::TwinPrimePower => params
             .get("q")
             .and_then(Value::as_u64)
@@ -60,7 +62,7 @@ pub(crate) fn implemented(method: Method, params: &BTreeMap<String, Value>) -> b
             .get("q")
             .and_then(Value::as_u64)
             .is_some_and(|q| q.checked_mul(q).is_some_and(|qq| qq <= MAX_Q)),
-        Method::Miyamoto | Method::Yamada | Method::Literature | Method::Published => false,
+        Method::Yamada | Method::Literature | Method::Published => false,
     }
 }
 
@@ -391,6 +393,10 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
             )?,
             [x] => return Err(wrong(&x)),
         },
+        Method::Miyamoto => match children::<1>(s)? {
+            [Built::Matrix(k)] => constructed(construct::miyamoto::miyamoto(param(s, "q")?, &k))?,
+            [x] => return Err(wrong(&x)),
+        },
         Method::SkewDoubling => match children::<1>(s)? {
             [Built::Matrix(h)] => constructed(construct::skew::skew_double(&h))?,
             [x] => return Err(wrong(&x)),
@@ -467,7 +473,7 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
             [Built::Turyn(t)] => Built::Base(construct::t_sequences::turyn_to_base(&t)),
             [x] => return Err(wrong(&x)),
         },
-        m @ (Method::Literature | Method::Published | Method::Miyamoto | Method::Yamada) => {
+        m @ (Method::Literature | Method::Published | Method::Yamada) => {
             let reason = match m {
                 Method::Literature | Method::Published => {
                     "it rests on a published result whose data this program does not hold"

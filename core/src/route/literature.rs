@@ -203,7 +203,7 @@ mod tests {
         assert_eq!(lit.horizon(), 2000);
         assert!(lit.history.iter().any(|m| m.year == 1962));
         for e in lit.orders.iter().filter(|e| e.open) {
-            // Derived (constructions.md §1): each open n/4 is a prime ≡ 3 mod 4.
+            // Derived (references.md#r3-open-orders): each open n/4 is a prime ≡ 3 mod 4.
             assert!(
                 crate::arith::is_prime(e.order / 4) && e.order / 4 % 4 == 3,
                 "{}",

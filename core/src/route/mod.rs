@@ -79,9 +79,12 @@ pub enum Method {
     CooperWallis,
     /// A skew matrix of order h doubled to a skew matrix of order 2h.
     SkewDoubling,
-    /// Miyamoto's theorem: q ≡ 1 mod 4 and an order q−1 give 4q (1991). Listed, not built.
+    /// Miyamoto's theorem: q ≡ 1 mod 4 a prime power and an order q−1 give 4q (1991), by this
+    /// program's own array (`construct::miyamoto`). Yamada's first theorem is its case
+    /// K = H₂ ⊗ H_{(q−1)/2}.
     Miyamoto,
-    /// Yamada's theorems (1989). Listed, not built.
+    /// Yamada's second theorem (1989): q ≡ 5 mod 8 and a skew order (q+3)/2 give 4(q+2).
+    /// Listed, not built.
     Yamada,
     /// The whole order is known from the literature file; no construction of ours reaches it.
     Literature,

@@ -16,7 +16,7 @@ pub(crate) mod refs {
     pub const PALEY: &str = "Paley, J. Math. Phys. 12 (1933)";
     pub const KRONECKER: &str =
         "Sylvester, Phil. Mag. 34 (1867): the tensor product of Hadamard matrices";
-    pub const CONFERENCE: &str = "conference matrix product C⊗H + I⊗(K·H), K = I⊗[[0,1],[−1,0]], over Paley's symmetric conference matrix (Paley, J. Math. Phys. 12, 1933) [derived; see constructions.md §2 #5]";
+    pub const CONFERENCE: &str = "conference matrix product C⊗H + I⊗(K·H), K = I⊗[[0,1],[−1,0]], over Paley's symmetric conference matrix (Paley, J. Math. Phys. 12, 1933) [derived; see references.md#r5-the-conference-matrix-product]";
     pub const TWIN: &str = "Stanton and Sprott, Canad. J. Math. 10 (1958) [recalled]";
     pub const WILLIAMSON: &str = "Williamson, Duke Math. J. 11 (1944)";
     pub const GOETHALS_SEIDEL: &str = "Goethals and Seidel, J. Austral. Math. Soc. 11 (1970)";
@@ -24,7 +24,8 @@ pub(crate) mod refs {
         "Turyn, J. Combin. Theory A 16 (1974) [recalled]: T-sequences in the Goethals–Seidel array";
     pub const COOPER_WALLIS: &str = "Cooper and Wallis, Bull. Austral. Math. Soc. 7 (1972) [recalled]: T-sequences with Williamson matrices";
     pub const SKEW_DOUBLING: &str = "a skew matrix of order h doubles to a skew matrix of order 2h (standard [recalled]; the block form is derived and verified in construct::skew)";
-    pub const MIYAMOTO: &str = "Miyamoto, J. Combin. Theory A 57 (1991) [recalled]";
+    pub const MIYAMOTO: &str = "Miyamoto, J. Combin. Theory A 57 (1991) 86–108: order 4q from a prime power q ≡ 1 mod 4 and any order q − 1 (the array is this program's own, construct::miyamoto)";
+    pub const MIYAMOTO_YAMADA: &str = "Yamada's first theorem (Yamada, J. Austral. Math. Soc. A 46 (1989)) as the case K = H₂ ⊗ H_{(q−1)/2} of Miyamoto, J. Combin. Theory A 57 (1991) 86–108 (the array is this program's own, construct::miyamoto)";
     pub const YAMADA: &str = "Yamada, J. Austral. Math. Soc. A 46 (1989)";
     pub const GOLAY: &str = "Golay, IRE Trans. Inform. Theory 7 (1961) [recalled]";
     pub const GOLAY_PRODUCT: &str =
@@ -32,7 +33,7 @@ pub(crate) mod refs {
     pub const GOLAY_LENGTHS: &str = "Golay pairs of every length 2^a·10^b·26^c: Turyn, J. Combin. Theory A 16 (1974); Jedwab and Parker, J. Combin. Des. 17 (2009)";
     pub const GOLAY_TO_T: &str = "T-sequences of lengths g, g+1 and 2g+1 from a Golay pair of length g (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
     pub const BASE_TO_T: &str = "T-sequences of length 2n+p from base sequences BS(n+p, n) (Turyn, J. Combin. Theory A 16, 1974 [recalled])";
-    pub const GOLAY_PAIRS_TO_BASE: &str = "Golay pairs of lengths g₁ ≥ g₂ are base sequences BS(g₁, g₂), so T-sequences of length g₁ + g₂ [derived from constructions.md §2 items 9 and 11; checked in construct::t_sequences]";
+    pub const GOLAY_PAIRS_TO_BASE: &str = "Golay pairs of lengths g₁ ≥ g₂ are base sequences BS(g₁, g₂), so T-sequences of length g₁ + g₂ [references.md#r6-base-sequences-and-t-sequences; checked in construct::t_sequences]";
     pub const TURYN_TO_BASE: &str = "BS(2n−1, n) = (C;D, C;−D, A, B) from TT(n): Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
     pub const TT_KNOWN: &str = "Turyn-type sequences TT(n) exist for every even n ≤ 38: Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21 (2013)";
     pub const TT36: &str = "TT(36): Kharaghani and Tayfeh-Rezaie, J. Combin. Des. 13 (2005)";
@@ -41,7 +42,7 @@ pub(crate) mod refs {
     pub const WILLIAMSON_23: &str = "Baumert, Golomb and Hall, Bull. Amer. Math. Soc. 68 (1962)";
 }
 
-/// The odd orders m for which Williamson matrices are known (constructions.md §3). None exist
+/// The odd orders m for which Williamson matrices are known (references.md#r7-williamson-orders). None exist
 /// for 35, 47, 53, 59 (Đoković 1993; Holzmann, Kharaghani and Tayfeh-Rezaie 2008).
 pub const WILLIAMSON_KNOWN: &[u64] = &[
     1, 3, 5, 7, 9, 11, 13, 15, 17, 19, 21, 23, 25, 27, 29, 31, 33, 37, 39, 41, 43, 45, 49, 51, 55,
@@ -702,25 +703,38 @@ impl Planner {
 
     fn miyamoto_yamada(&mut self, n: u64, out: &mut Vec<Route>) {
         let q = n / 4;
-        if prime_power(q).is_some() && q % 4 == 1 {
-            if let Some(h) = self.best(q - 1) {
+        if q % 4 == 1 && prime_power(q).is_some() {
+            let direct = self.best(q - 1);
+            if let Some(h) = &direct {
                 out.push(route(step(
                     Method::Miyamoto,
                     n,
                     vec![("q", json!(q))],
                     refs::MIYAMOTO,
-                    vec![h.tree],
+                    vec![h.tree.clone()],
                 )));
             }
+            // Yamada's first theorem: q ≡ 1 mod 8 and order (q−1)/2, doubled to K of order
+            // q − 1 = 2·((q−1)/2) by a Kronecker product with H₂, then Miyamoto's 4q. Listed
+            // apart only when it is not already the best route to q − 1.
             if q % 8 == 1 {
-                if let Some(h) = self.best((q - 1) / 2) {
-                    out.push(route(step(
-                        Method::Yamada,
-                        n,
-                        vec![("q", json!(q)), ("case", json!("i"))],
-                        refs::YAMADA,
-                        vec![h.tree],
-                    )));
+                if let (Some(two), Some(half)) = (self.best(2), self.best((q - 1) / 2)) {
+                    let doubled = step(
+                        Method::Kronecker,
+                        q - 1,
+                        vec![],
+                        refs::KRONECKER,
+                        vec![two.tree, half.tree],
+                    );
+                    if direct.as_ref().is_none_or(|d| d.tree != doubled) {
+                        out.push(route(step(
+                            Method::Miyamoto,
+                            n,
+                            vec![("q", json!(q))],
+                            refs::MIYAMOTO_YAMADA,
+                            vec![doubled],
+                        )));
+                    }
                 }
             }
         }
@@ -994,6 +1008,7 @@ fn method_words(m: Method) -> &'static str {
         Method::TSequences => "T-sequences in the Goethals–Seidel array",
         Method::CooperWallis => "the Cooper–Wallis construction",
         Method::SkewDoubling => "skew doubling",
+        Method::Miyamoto => "Miyamoto's 4q theorem",
         _ => "a published construction",
     }
 }

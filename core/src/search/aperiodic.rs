@@ -24,7 +24,7 @@
 //! - for TT(n) with n even, a₍ₙ₋₁₎ = +1 (alternate all four by (−1)ⁱ: this flips the last entry
 //!   of the length-n sequences and keeps the first entries).
 //!
-//! TT classes follow constructions.md §4: negate any one, reverse any one, swap A and B, and
+//! TT classes follow references.md#r8-ttn-counts-and-existence: negate any one, reverse any one, swap A and B, and
 //! alternate all four; the canonical form is the least image under that group.
 
 use super::Search;
@@ -126,7 +126,7 @@ fn is_solution(family: Family, x: &[Vec<i8>]) -> bool {
     }
 }
 
-/// The class representative of a TT(n) under constructions.md §4's equivalence.
+/// The class representative of a TT(n) under the equivalence of references.md#r8-ttn-counts-and-existence.
 pub fn turyn_canonical(x: &[Vec<i8>]) -> Vec<Vec<i8>> {
     let positive = |v: Vec<i8>| {
         if v.first() == Some(&-1) {
@@ -539,7 +539,7 @@ mod tests {
     #[test]
     fn turyn_type_class_counts_up_to_8() {
         // Published TT(n) class counts (Best, Đoković, Kharaghani and Ramp, J. Combin. Des. 21,
-        // 2013) [recalled, constructions.md §4].
+        // 2013) [references.md#r8-ttn-counts-and-existence].
         for (n, classes) in [(2, 1), (4, 1), (6, 4), (8, 6)] {
             assert_eq!(count(Family::Turyn(n), Mode::Classes), classes, "n = {n}");
         }
@@ -547,7 +547,7 @@ mod tests {
 
     #[test]
     fn no_turyn_type_of_odd_small_length() {
-        // "No TT(n) exist for odd n ≤ 9" [recalled, constructions.md §4]; n = 3, 7 also follow
+        // "No TT(n) exist for odd n ≤ 9" [references.md#r8-ttn-counts-and-existence]; n = 3, 7 also follow
         // from the weight equation mod 8 [derived].
         for n in [3, 5, 7] {
             assert_eq!(count(Family::Turyn(n), Mode::Solutions), 0, "n = {n}");
@@ -556,7 +556,7 @@ mod tests {
 
     #[test]
     fn golay_pairs_of_length_10_exist_and_3_do_not() {
-        // Golay pairs exist for lengths 2^a·10^b·26^c (constructions.md §2 #11, [read]) and not
+        // Golay pairs exist for lengths 2^a·10^b·26^c (references.md#r6-base-sequences-and-t-sequences) and not
         // for length 3: a length-g pair needs 2g to be a sum of two squares [derived: row sums].
         let ten = run_to_end(
             &AperiodicSearch::new(Family::Golay(10), Mode::Solutions),

@@ -588,7 +588,7 @@ mod tests {
 
     #[test]
     fn small_lengths_have_quadruples() {
-        // Every v ≤ 12 has a quadruple: Williamson ones for odd v (constructions.md §3 [read])
+        // Every v ≤ 12 has a quadruple: Williamson ones for odd v (references.md#r7-williamson-orders)
         // are among them, and the search must find some for each v here.
         for v in 1..=12 {
             let found = run_to_end(&GsSearch::new(v), Some(1));
@@ -653,7 +653,7 @@ mod tests {
 
     #[test]
     fn multipliers_reach_lengths_the_plain_search_cannot() {
-        // Williamson matrices of order 43 exist (constructions.md §3 [recalled]); with the
+        // Williamson matrices of order 43 exist (references.md#r7-williamson-orders); with the
         // multipliers ⟨7⟩ = {1, 7, 6, 42, 36, 37} ∋ −1 mod 43 the quadruples are symmetric, so
         // they come out as Williamson lines, and each passes the exact identity.
         let found = run_to_end(&GsSearch::with_multiplier(43, 7).unwrap(), Some(1));
@@ -664,7 +664,7 @@ mod tests {
             assert!(cat.williamson[0].data.is_valid() && cat.williamson[0].data.m() == 43);
         }
         // Without −1 in the group the result is a Goethals–Seidel quadruple of length 73, the
-        // input of order 292 = 4·73 (known to exist: constructions.md §1 [recalled]).
+        // input of order 292 = 4·73 (known to exist: references.md#r3-open-orders).
         let found = run_to_end(&GsSearch::with_multiplier(73, 2).unwrap(), Some(1));
         assert!(!found.is_empty());
         for line in &found {

@@ -100,6 +100,10 @@ pub struct Checkpoint {
     pub finished: bool,
 }
 
+/// Units per batch unless a run says otherwise: the command line's default too, so that a
+/// limited run started from either gives the same results.
+pub const DEFAULT_BATCH: usize = 8;
+
 /// How a run is carried out: its shard, how many results are enough, and the batch size.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub struct RunConfig {
@@ -116,7 +120,7 @@ impl Default for RunConfig {
         RunConfig {
             shard: Shard::WHOLE,
             limit: None,
-            batch: 64,
+            batch: DEFAULT_BATCH,
         }
     }
 }

@@ -402,7 +402,7 @@ impl Search for WilliamsonSearch {
         super::slice_units(
             self.decompositions
                 .iter()
-                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then(|| d.leaders.len())),
+                .map(|d| (!d.rows.iter().any(|r| r.is_empty())).then_some(d.leaders.len())),
         )
     }
 
@@ -471,7 +471,7 @@ mod tests {
     #[test]
     fn class_counts_up_to_13() {
         // Published counts of inequivalent Williamson quadruples (Holzmann, Kharaghani and
-        // Tayfeh-Rezaie, Des. Codes Cryptogr. 46, 2008) [recalled, constructions.md §3].
+        // Tayfeh-Rezaie, Des. Codes Cryptogr. 46, 2008) [references.md#r7-williamson-orders].
         let published = [(1, 1), (3, 1), (5, 1), (7, 2), (9, 3), (11, 1), (13, 4)];
         for (m, count) in published {
             assert_eq!(classes(m), count, "m = {m}");

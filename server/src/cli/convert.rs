@@ -13,6 +13,9 @@ use std::process::ExitCode;
 pub struct ConvertArgs {
     #[command(flatten)]
     input: InputArgs,
+    /// The same as --input-format: force the input format (pm, int (csv), bits, json, npy).
+    #[arg(long, value_name = "F", conflicts_with = "input_format")]
+    format: Option<String>,
     /// The output format: pm, csv, bits, json, npy (int8), npy-f64, npy-f64-scaled, png.
     #[arg(long, value_name = "F")]
     to: String,
@@ -27,7 +30,10 @@ pub struct ConvertArgs {
     out_bits_minus: String,
 }
 
-pub fn run(args: ConvertArgs) -> ExitCode {
+pub fn run(mut args: ConvertArgs) -> ExitCode {
+    if let Some(f) = args.format.take() {
+        args.input.input_format = Some(f);
+    }
     let parsed = match read_input(&args.input) {
         Ok(p) => p,
         Err(e) => return e.report(false),

@@ -359,7 +359,7 @@ fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
         Some(p) => load_verified(
             &InputArgs {
                 path: p.clone(),
-                format: None,
+                input_format: None,
                 bits_minus: "1".into(),
                 max_order: 1 << 15,
             },

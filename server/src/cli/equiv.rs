@@ -26,7 +26,7 @@ pub struct EquivArgs {
 pub fn run(args: EquivArgs) -> ExitCode {
     let input = |p: &str| InputArgs {
         path: p.to_owned(),
-        format: None,
+        input_format: None,
         bits_minus: "1".into(),
         max_order: 1 << 15,
     };
@@ -38,8 +38,23 @@ pub fn run(args: EquivArgs) -> ExitCode {
     let r = match equivalence(&a, &b, args.budget) {
         Ok(r) => r,
         Err(e) => {
-            eprintln!("hadamard: {e}");
-            return ExitCode::from(1);
+            // Matrices of different orders are inequivalent; a certificate that fails its
+            // check is a bug. Either way a program asking for JSON gets an object.
+            let different = a.order() != b.order();
+            if args.json {
+                let v = serde_json::json!({
+                    "verdict": if different { "inequivalent" } else { "error" },
+                    "note": e.to_string(),
+                    "a_order": a.order(),
+                    "b_order": b.order(),
+                    "a_id": a.id(),
+                    "b_id": b.id(),
+                });
+                println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+            } else {
+                eprintln!("hadamard: {e}");
+            }
+            return ExitCode::from(if different { 1 } else { 2 });
         }
     };
     if args.json {

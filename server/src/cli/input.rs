@@ -14,8 +14,9 @@ pub struct InputArgs {
     /// The matrix file, or `-` for standard input.
     pub path: String,
     /// Force the input format instead of detecting it: pm, int (csv), bits, json, npy.
-    #[arg(long, value_name = "F")]
-    pub format: Option<String>,
+    /// (`verify` and `convert` also take it as `--format`, as the interface has always said.)
+    #[arg(long = "input-format", value_name = "F")]
+    pub input_format: Option<String>,
     /// For `bits` input: which digit stands for −1 (the verdict does not depend on it).
     #[arg(long, value_name = "DIGIT", default_value = "1", value_parser = ["0", "1"])]
     pub bits_minus: String,
@@ -56,7 +57,7 @@ impl InputError {
 
 /// Reads and parses the input the arguments name.
 pub fn read_input(args: &InputArgs) -> Result<Parsed, InputError> {
-    let format = match &args.format {
+    let format = match &args.input_format {
         None => None,
         Some(f) => Some(f.parse::<Format>().map_err(|_| {
             InputError::Usage(format!(

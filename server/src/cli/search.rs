@@ -18,7 +18,7 @@ use std::collections::BTreeMap;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
-use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::time::Instant;
 
 #[derive(clap::Args)]
@@ -131,7 +131,7 @@ struct Common {
     #[arg(long)]
     checkpoint: Option<PathBuf>,
     /// Units per batch (checkpoint and progress granularity; part of a limited run's identity).
-    #[arg(long, default_value_t = 8)]
+    #[arg(long, default_value_t = hadamard_core::search::DEFAULT_BATCH)]
     batch: usize,
     /// Print one JSON object on stdout instead of seed lines.
     #[arg(long)]
@@ -268,41 +268,17 @@ fn provenance_command(args: impl Iterator<Item = String>) -> String {
     kept.join(" ")
 }
 
-fn today() -> String {
-    // Days since 1970-01-01 to a civil date (Hinnant's algorithm), so no date crate is needed.
-    let secs = std::time::SystemTime::now()
-        .duration_since(std::time::UNIX_EPOCH)
-        .map(|d| d.as_secs())
-        .unwrap_or(0);
-    let z = (secs / 86_400) as i64 + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
 fn watch_ctrl_c() {
-    std::thread::spawn(|| {
-        let Ok(rt) = tokio::runtime::Builder::new_current_thread()
-            .enable_all()
-            .build()
-        else {
-            return;
-        };
-        rt.block_on(async {
-            if tokio::signal::ctrl_c().await.is_ok() {
-                eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
-                STOP.store(true, Ordering::SeqCst);
-            }
-            if tokio::signal::ctrl_c().await.is_ok() {
-                std::process::exit(130);
-            }
-        });
+    // The first Ctrl-C asks the search to stop at the end of its batch (a checkpoint is then
+    // written); the second quits at once.
+    static PRESSED: AtomicUsize = AtomicUsize::new(0);
+    let _ = ctrlc::set_handler(|| {
+        if PRESSED.fetch_add(1, Ordering::SeqCst) == 0 {
+            eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
+            STOP.store(true, Ordering::SeqCst);
+        } else {
+            std::process::exit(130);
+        }
     });
 }
 
@@ -384,7 +360,11 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         eprintln!("warning: could not save the checkpoint: {e}");
     }
     let elapsed = start.elapsed().as_secs_f64();
-    let provenance = format!("found by {command} (shard {}); {}", common.shard, today());
+    let provenance = format!(
+        "found by {command} (shard {}); {}",
+        common.shard,
+        crate::time::today()
+    );
     let lines: Vec<String> = state
         .results
         .iter()
@@ -553,7 +533,7 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
             break;
         }
     }
-    let date = today();
+    let date = crate::time::today();
     let lines: Vec<String> = built
         .iter()
         .map(|(g, how)| {

@@ -21,9 +21,15 @@ pub struct VerifyArgs {
     max_pairs: usize,
     #[command(flatten)]
     input: InputArgs,
+    /// The same as --input-format: force the input format (pm, int (csv), bits, json, npy).
+    #[arg(long, value_name = "F", conflicts_with = "input_format")]
+    format: Option<String>,
 }
 
-pub fn run(args: VerifyArgs) -> ExitCode {
+pub fn run(mut args: VerifyArgs) -> ExitCode {
+    if let Some(f) = args.format.take() {
+        args.input.input_format = Some(f);
+    }
     let parsed = match read_input(&args.input) {
         Ok(p) => p,
         Err(e) => return e.report(args.json),
