@@ -415,7 +415,10 @@ pub(super) fn read(bytes: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseErro
             let v = load(&row[j * size..(j + 1) * size], h.dtype.big_endian);
             let want = match &scale {
                 Some((_, _, shown)) => format!("{shown} or -{shown} (the file is scaled by 1/√{cols}, as its first element says)"),
-                None => format!("1 or -1 (or ±1/√{cols} throughout, for a scaled float file)"),
+                None if h.dtype.kind == b'f' => {
+                    format!("1 or -1 (or ±1/√{cols} throughout, for a scaled float file)")
+                }
+                None => "1 or -1".to_string(),
             };
             return Err(ParseError::new(
                 Location::Element(k),
