@@ -90,10 +90,11 @@ fn prepare(a: Asset) -> &'static Prepared {
         let bytes = a.bytes();
         let hash = hadamard_core::id::sha256_hex(bytes);
         let mut enc = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
-        let gzip = match enc.write_all(bytes).and_then(|()| enc.finish()) {
-            Ok(g) => g,
-            Err(_) => Vec::new(),
-        };
+        // An empty result (a failed compression) means "serve it uncompressed".
+        let gzip = enc
+            .write_all(bytes)
+            .and_then(|()| enc.finish())
+            .unwrap_or_default();
         Prepared {
             etag: format!("\"{}\"", &hash[..20]),
             gzip,
