@@ -90,10 +90,12 @@ if [ "$built" -eq 1 ]; then
   done
   [ -f tests/python/conftest.py ] &&
     suite "cross-checks (pytest: numpy, scipy, galois, sympy)" python3 -m pytest -q tests/python
+  suite "Python package (abi3 wheel in a fresh venv, pytest)" bash tests/python-package.sh
+  suite "Slurm: sharded searches on a one-node cluster" bash tests/slurm/run.sh
   [ -f tests/browser/run.mjs ] &&
     suite "browser tests (headless Chromium)" node tests/browser/run.mjs
 else
-  for s in "cargo test" "core in wasm32" "cross-checks (pytest)" "browser tests"; do
+  for s in "cargo test" "core in wasm32" "cross-checks (pytest)" "Slurm" "browser tests"; do
     skip "$s" "not run: the build failed, and the binary would be stale"
   done
 fi

@@ -19,6 +19,7 @@ pub mod derive;
 pub mod field;
 pub mod formats;
 pub mod id;
+pub mod json;
 pub mod matrix;
 pub mod query;
 pub mod repair;

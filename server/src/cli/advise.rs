@@ -5,8 +5,7 @@
 //! only an m₀×m₀ dense part). `--at-least K` gives the smallest order ≥ K that is known, and the
 //! smallest this program can build.
 
-use hadamard_core::route::{self, OrderInfo};
-use serde_json::json;
+use hadamard_core::route;
 use std::process::ExitCode;
 
 #[derive(clap::Args)]
@@ -54,14 +53,9 @@ pub fn run(args: AdviseArgs) -> ExitCode {
         return ExitCode::SUCCESS;
     }
     let k = args.at_least.unwrap_or(1);
-    let known = route::smallest_known_at_least(k);
-    let built = route::smallest_constructible_at_least(k);
+    let (known, built, v) = hadamard_core::json::smallest_at_least(k);
     if args.json {
-        let short = |o: &Option<OrderInfo>| {
-            o.as_ref()
-                .map(|i| json!({"order": i.order, "status": i.status}))
-        };
-        println!("{}", serde_json::to_string_pretty(&json!({"at_least": k, "smallest_known": short(&known), "smallest_constructible": short(&built)})).unwrap_or_default());
+        println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         match &known {
             Some(i) => println!(

@@ -4,8 +4,8 @@
 //! The search itself is `hadamard_core::search`; this command owns what core must not do: the
 //! terminal (indicatif), the checkpoint file, Ctrl-C, and appending to the catalogue files.
 //! Exit 0: the shard finished (whether or not it found anything; the summary says). Exit 1: it
-//! was stopped (Ctrl-C) before finishing; the checkpoint holds its state. Exit 2: usage or
-//! I/O error.
+//! was stopped (Ctrl-C or SIGTERM) before finishing; the checkpoint holds its state. Exit 2:
+//! usage or I/O error, or (`search merge`) files that are not every shard of one search once.
 
 use hadamard_core::construct::sequences::{to_text, GolayPair};
 use hadamard_core::search::{
@@ -103,6 +103,10 @@ enum Kind {
         /// Also append the results that are not there yet to this seed-catalogue file.
         #[arg(long)]
         append_to: Option<PathBuf>,
+        /// Take the union of any files, without checking that they are exactly the shards
+        /// 0/k … (k−1)/k of one search, each once and finished.
+        #[arg(long)]
+        unchecked: bool,
     },
 }
 
@@ -240,7 +244,8 @@ pub fn run(args: SearchArgs) -> ExitCode {
             files,
             json,
             append_to,
-        } => merge(&files, json, append_to.as_deref()),
+            unchecked,
+        } => merge(&files, json, append_to.as_deref(), unchecked),
     }
 }
 
@@ -280,7 +285,36 @@ fn watch_ctrl_c() {
             std::process::exit(130);
         }
     });
+    watch_sigterm();
 }
+
+/// SIGTERM (a scheduler's preemption, requeue or cancel; `kill`) also stops the search at the
+/// end of its batch. Unlike Ctrl-C, a repeated SIGTERM does not quit at once: a scheduler may
+/// send it to every process of the job and a job script may forward it again; the scheduler's
+/// SIGKILL is the hard stop.
+#[cfg(unix)]
+fn watch_sigterm() {
+    extern "C" fn on_term(_: libc::c_int) {
+        if !STOP.swap(true, Ordering::SeqCst) {
+            // Only async-signal-safe calls here: one write(2) to stderr.
+            let msg = b"\nterminated: stopping at the end of this batch\n";
+            // SAFETY: write(2) of a static buffer to fd 2 is async-signal-safe.
+            unsafe {
+                libc::write(2, msg.as_ptr().cast(), msg.len());
+            }
+        }
+    }
+    // SAFETY: the handler only touches an atomic and calls write(2).
+    unsafe {
+        libc::signal(
+            libc::SIGTERM,
+            on_term as extern "C" fn(libc::c_int) as libc::sighandler_t,
+        );
+    }
+}
+
+#[cfg(not(unix))]
+fn watch_sigterm() {}
 
 fn load_checkpoint(path: &Path) -> Result<Option<Checkpoint>, String> {
     match std::fs::read_to_string(path) {
@@ -311,6 +345,16 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
             return ExitCode::from(2);
         }
     };
+    if let (Some(c), Some(p)) = (&resume, &common.checkpoint) {
+        eprintln!(
+            "resuming from {}: {}/{} units of shard {} done, {} result(s) so far",
+            p.display(),
+            c.next,
+            c.total,
+            c.shard,
+            c.results.len()
+        );
+    }
     let limit = (!what.classes && !what.all).then_some(what.limit.max(1));
     let config = RunConfig {
         shard: common.shard,
@@ -447,35 +491,184 @@ fn append_new(path: &Path, lines: &[String]) -> std::io::Result<()> {
     Ok(())
 }
 
-fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>) -> ExitCode {
-    // Keyed by the data part, so the same result from two shards appears once (with the
-    // provenance of the first file that has it).
-    let mut all: BTreeMap<String, String> = BTreeMap::new();
-    for f in files {
-        let text = match std::fs::read_to_string(f) {
-            Ok(t) => t,
-            Err(e) => {
-                eprintln!("error: {}: {e}", f.display());
-                return ExitCode::from(2);
-            }
-        };
-        let lines: Vec<String> = match serde_json::from_str::<serde_json::Value>(&text) {
-            Ok(v) => v["results"]
+/// One input of `search merge`: its result lines and what it says about the run it came from.
+struct ShardOutput {
+    path: PathBuf,
+    lines: Vec<String>,
+    /// The search: core's description in a `--json` output, else the command in the
+    /// provenance of its lines. `None` when the file does not say.
+    search: Option<String>,
+    shard: Option<Shard>,
+    /// From a `--json` output: whether the shard ran to its end, and its units done / total.
+    finished: Option<(bool, u64, u64)>,
+    /// Its lines name more than one search or shard (a merged file, or files concatenated).
+    mixed: bool,
+}
+
+/// The search command and shard that a result line's provenance names: `... | found by CMD
+/// (shard i/k); DATE`.
+fn provenance_shard(line: &str) -> Option<(String, Shard)> {
+    let (_, prov) = line.split_once('|')?;
+    let prov = prov.trim();
+    let rest = prov.strip_prefix("found by ")?;
+    let at = rest.rfind(" (shard ")?;
+    let command = rest[..at].to_string();
+    let tail = &rest[at + " (shard ".len()..];
+    let shard = tail.split_once(')')?.0.parse().ok()?;
+    Some((command, shard))
+}
+
+fn read_shard_output(path: &Path) -> Result<ShardOutput, String> {
+    let text = std::fs::read_to_string(path).map_err(|e| format!("{}: {e}", path.display()))?;
+    let mut out = ShardOutput {
+        path: path.to_path_buf(),
+        lines: Vec::new(),
+        search: None,
+        shard: None,
+        finished: None,
+        mixed: false,
+    };
+    match serde_json::from_str::<serde_json::Value>(&text) {
+        Ok(v) => {
+            out.lines = v["results"]
                 .as_array()
                 .map(|a| {
                     a.iter()
                         .filter_map(|x| x.as_str().map(String::from))
                         .collect()
                 })
-                .unwrap_or_default(),
-            Err(_) => text
+                .unwrap_or_default();
+            out.search = v["search"].as_str().map(String::from);
+            out.shard = v["shard"].as_str().and_then(|s| s.parse().ok());
+            if let (Some(f), Some(d), Some(t)) = (
+                v["finished"].as_bool(),
+                v["units_done"].as_u64(),
+                v["units_total"].as_u64(),
+            ) {
+                out.finished = Some((f, d, t));
+            }
+        }
+        Err(_) => {
+            out.lines = text
                 .lines()
                 .map(str::trim)
                 .filter(|l| !l.is_empty() && !l.starts_with('#'))
                 .map(String::from)
-                .collect(),
+                .collect()
+        }
+    }
+    if out.search.is_none() || out.shard.is_none() {
+        // A text output (or a `--json` merge output): the provenance of the lines says it.
+        let mut named = out.lines.iter().map(|l| provenance_shard(l));
+        if let Some(first) = named.next() {
+            if named.any(|n| n != first) {
+                out.mixed = true;
+            } else if let Some((command, shard)) = first {
+                out.search = Some(command);
+                out.shard = Some(shard);
+            }
+        }
+    }
+    Ok(out)
+}
+
+/// Checks that `outputs` are the shards 0/k … (k−1)/k of one search, each exactly once and
+/// finished, so that their union is the whole search. Returns every problem found.
+fn check_complete(outputs: &[ShardOutput]) -> Vec<String> {
+    let mut problems = Vec::new();
+    if outputs.is_empty() {
+        problems.push("no shard outputs given".to_string());
+        return problems;
+    }
+    let mut first: Option<(&ShardOutput, &str, Shard)> = None;
+    let mut seen: BTreeMap<u64, &Path> = BTreeMap::new();
+    for o in outputs {
+        let p = o.path.display();
+        if o.mixed {
+            problems.push(format!(
+                "{p}: its lines come from more than one search or shard (a merged file?)"
+            ));
+            continue;
+        }
+        let (Some(search), Some(shard)) = (o.search.as_deref(), o.shard) else {
+            problems.push(format!(
+                "{p}: does not say which search and shard it is (no results, and not a --json output of `hadamard search`)"
+            ));
+            continue;
         };
-        for l in lines {
+        if let Some((f, fs, fshard)) = first {
+            if search != fs {
+                problems.push(format!(
+                    "{p}: is from `{search}`, but {} is from `{fs}`",
+                    f.path.display()
+                ));
+                continue;
+            }
+            if shard.count != fshard.count {
+                problems.push(format!(
+                    "{p}: is shard {shard}, but {} is shard {fshard}: different shard counts",
+                    f.path.display()
+                ));
+                continue;
+            }
+        } else {
+            first = Some((o, search, shard));
+        }
+        if let Some((false, done, total)) = o.finished {
+            problems.push(format!(
+                "{p}: shard {shard} is unfinished ({done}/{total} units); resume it with its --checkpoint"
+            ));
+        }
+        if let Some(other) = seen.insert(shard.index, &o.path) {
+            problems.push(format!(
+                "shard {shard} is given twice: {} and {p}",
+                other.display()
+            ));
+        }
+    }
+    if let Some((_, _, fshard)) = first {
+        let missing: Vec<String> = (0..fshard.count)
+            .filter(|i| !seen.contains_key(i))
+            .map(|i| format!("{i}/{}", fshard.count))
+            .collect();
+        if !missing.is_empty() {
+            problems.push(format!(
+                "shard(s) {} missing: the union would not be the whole search",
+                missing.join(", ")
+            ));
+        }
+    }
+    problems
+}
+
+fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>, unchecked: bool) -> ExitCode {
+    let mut outputs = Vec::new();
+    for f in files {
+        match read_shard_output(f) {
+            Ok(o) => outputs.push(o),
+            Err(e) => {
+                eprintln!("error: {e}");
+                return ExitCode::from(2);
+            }
+        }
+    }
+    if !unchecked {
+        let problems = check_complete(&outputs);
+        if !problems.is_empty() {
+            for p in &problems {
+                eprintln!("error: {p}");
+            }
+            eprintln!(
+                "refusing to merge: the files must be the shards 0/k … (k−1)/k of one search, each once and finished (--unchecked merges them anyway)"
+            );
+            return ExitCode::from(2);
+        }
+    }
+    // Keyed by the data part, so the same result from two shards appears once (with the
+    // provenance of the first file that has it).
+    let mut all: BTreeMap<String, String> = BTreeMap::new();
+    for o in outputs {
+        for l in o.lines {
             all.entry(data_part(&l).to_string()).or_insert(l);
         }
     }
@@ -571,5 +764,66 @@ fn print_results(lines: &[String], json: bool) {
         for l in lines {
             println!("{l}");
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn output(name: &str, search: &str, shard: &str, finished: bool) -> ShardOutput {
+        ShardOutput {
+            path: PathBuf::from(name),
+            lines: Vec::new(),
+            search: Some(search.to_string()),
+            shard: shard.parse().ok(),
+            finished: Some((finished, if finished { 10 } else { 3 }, 10)),
+            mixed: false,
+        }
+    }
+
+    #[test]
+    fn the_provenance_names_the_command_and_the_shard() {
+        let line = "turyn n=2 a=++ b=+- c=++ d=+ | found by hadamard search turyn --n 2 (shard 1/3); 2026-12-03";
+        assert_eq!(
+            provenance_shard(line),
+            Some((
+                "hadamard search turyn --n 2".to_string(),
+                Shard { index: 1, count: 3 }
+            ))
+        );
+        assert_eq!(provenance_shard("turyn n=2 a=++ b=+- c=++ d=+"), None);
+    }
+
+    #[test]
+    fn merge_accepts_only_every_shard_once_and_finished() {
+        let s = "turyn n=12 mode=classes";
+        let whole = |extra: Vec<ShardOutput>| {
+            let mut v: Vec<ShardOutput> = (0..3)
+                .map(|i| output(&format!("s{i}"), s, &format!("{i}/3"), true))
+                .collect();
+            v.extend(extra);
+            v
+        };
+        assert!(check_complete(&whole(vec![])).is_empty());
+        // Lost: shard 2/3 missing.
+        let lost = check_complete(&whole(vec![])[..2]);
+        assert_eq!(lost.len(), 1);
+        assert!(lost[0].contains("2/3 missing"), "{lost:?}");
+        // Duplicated.
+        let twice = check_complete(&whole(vec![output("again", s, "1/3", true)]));
+        assert!(twice.iter().any(|p| p.contains("shard 1/3 is given twice")));
+        // Unfinished, another search, another shard count, unidentified.
+        let mut v = whole(vec![]);
+        v[1] = output("s1", s, "1/3", false);
+        assert!(check_complete(&v)[0].contains("unfinished"));
+        let other = check_complete(&whole(vec![output("w", "williamson m=5", "0/3", true)]));
+        assert!(other[0].contains("is from `williamson m=5`"));
+        let k = check_complete(&whole(vec![output("k", s, "3/4", true)]));
+        assert!(k[0].contains("different shard counts"));
+        let mut anon = output("anon", s, "0/3", true);
+        anon.search = None;
+        assert!(check_complete(&[anon])[0].contains("does not say"));
+        assert!(!check_complete(&[]).is_empty());
     }
 }

@@ -5,9 +5,9 @@
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
 use super::input::{read_input, InputArgs};
-use hadamard_core::repair::{self, Completion, Repair};
+use hadamard_core::json;
+use hadamard_core::repair::{Completion, Repair};
 use hadamard_core::verify::{self, Report};
-use serde_json::{json, Value};
 use std::process::ExitCode;
 use std::time::Instant;
 
@@ -38,37 +38,16 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
     let report = verify::verify_with_cap(&parsed.matrix, args.max_pairs);
     let elapsed = start.elapsed();
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
-    let erased = !parsed.erasures.is_empty();
-    let hadamard = report.hadamard && !erased;
-
-    let completion = erased.then(|| {
-        repair::complete(
-            &parsed.matrix,
-            &parsed.erasures,
-            repair::CompletionLimits::default(),
-        )
-    });
-    let fix = (!hadamard && !erased)
-        .then(|| repair::single_wrong_entry(&parsed.matrix, &report))
-        .flatten();
+    let follow = json::follow_up(&parsed.matrix, &parsed.erasures, &report);
+    let hadamard = follow.hadamard;
 
     if args.json {
-        let mut v = serde_json::to_value(&report).unwrap_or(Value::Null);
-        if let Value::Object(o) = &mut v {
-            o.insert("hadamard".into(), json!(hadamard));
-            o.insert("format".into(), json!(parsed.format.name()));
-            o.insert("failing_pairs_index_base".into(), json!(0));
-            o.insert("elapsed_ms".into(), json!(elapsed.as_secs_f64() * 1e3));
-            o.insert("erased_entries".into(), json!(parsed.erasures.len()));
-            o.insert(
-                "repair".into(),
-                fix.as_ref().map_or(Value::Null, repair_json),
-            );
-            o.insert(
-                "completion".into(),
-                completion.as_ref().map_or(Value::Null, completion_json),
-            );
-        }
+        let v = json::verification(
+            &report,
+            &follow,
+            parsed.format.name(),
+            elapsed.as_secs_f64() * 1e3,
+        );
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
         print_human(
@@ -76,35 +55,14 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             hadamard,
             parsed.format.name(),
             elapsed.as_secs_f64(),
-            fix.as_ref(),
-            completion.as_ref(),
+            follow.repair.as_ref(),
+            follow.completion.as_ref(),
         );
     }
     if hadamard {
         ExitCode::SUCCESS
     } else {
         ExitCode::from(1)
-    }
-}
-
-fn repair_json(r: &Repair) -> Value {
-    json!({
-        "kind": "single_wrong_entry",
-        "row": r.row,
-        "col": r.col,
-        "index_base": 0,
-        "corrected_sha256": r.corrected_id,
-    })
-}
-
-fn completion_json(c: &Completion) -> Value {
-    match c {
-        Completion::Unique { id, .. } => json!({"kind": "unique", "completed_sha256": id}),
-        Completion::None => json!({"kind": "none"}),
-        Completion::Several { count, complete } => {
-            json!({"kind": "several", "count": count, "count_is_exact": complete})
-        }
-        Completion::GaveUp { explored } => json!({"kind": "undecided", "explored_nodes": explored}),
     }
 }
 
