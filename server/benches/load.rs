@@ -96,6 +96,10 @@ fn main() {
     let dup = sylvester_variant(5, 12345);
     request(addr, "POST", "/api/matrices", &[], dup.as_bytes());
 
+    if std::env::var("LOAD_MIX").is_ok_and(|v| v == "1") {
+        mix(addr, s.pid(), clients, secs, &id16, &id256);
+        return;
+    }
     let get = |path: String, want: u16| -> Op {
         Arc::new(move |_, _| ("GET".into(), path.clone(), Vec::new(), want))
     };
@@ -201,4 +205,85 @@ fn main() {
     let p = |q: f64| lat[((lat.len() as f64 - 1.0) * q).round() as usize];
     println!("| GET download with If-None-Match (304), 1 client | {} | {errors} | {:.0} | {:.2} | {:.2} |", lat.len(), lat.len() as f64 / start.elapsed().as_secs_f64(), p(0.5), p(0.99));
     s.stop();
+}
+
+/// `LOAD_MIX=1`: one scenario mixing look-ups, downloads and uploads from every client at once
+/// (issue 13's load run: `LOAD_MIX=1 LOAD_CLIENTS=64 LOAD_SECONDS=60`), with the server's peak
+/// memory (VmHWM) and health's latency measured from a separate client during the run.
+fn mix(addr: SocketAddr, pid: u32, clients: u64, secs: u64, id16: &str, id256: &str) {
+    let id1024 = request(addr, "GET", "/api/orders/1024/matrix", &[], &[]).json()["id"]
+        .as_str()
+        .unwrap_or_default()
+        .to_owned();
+    let dup = sylvester_variant(5, 12345);
+    let (id16, id256) = (id16.to_owned(), id256.to_owned());
+    let op: Op = Arc::new(move |c, k| {
+        let get = |p: String| ("GET".to_owned(), p, Vec::new(), 200);
+        match (c + k) % 10 {
+            0 => get(format!("/api/orders/{}", 4 * (1 + (c * 31 + k * 17) % 500))),
+            1 => get(format!(
+                "/api/smallest-known?at-least={}&constructible=true",
+                1 + (c * 7919 + k * 104729) % 30000
+            )),
+            2 => get(format!("/api/matrices/{id16}")),
+            3 => get(format!("/api/matrices/{id256}/rows/{}", k % 256)),
+            4 => get(format!("/api/matrices/{id16}/download?format=pm")),
+            5 => get(format!("/api/matrices/{id256}/download?format=npy")),
+            6 => get(format!("/api/matrices/{id1024}/download?format=npy-f64")),
+            7 => get("/api/health".to_owned()),
+            8 => (
+                "POST".into(),
+                "/api/matrices".into(),
+                dup.clone().into_bytes(),
+                200,
+            ),
+            _ => (
+                "POST".into(),
+                "/api/matrices".into(),
+                sylvester_variant(5, (c << 24) | (k + 1)).into_bytes(),
+                201,
+            ),
+        }
+    });
+    let stop = Arc::new(std::sync::atomic::AtomicBool::new(false));
+    let watcher = {
+        let stop = stop.clone();
+        std::thread::spawn(move || {
+            let mut worst: f64 = 0.0;
+            let mut failed = 0;
+            while !stop.load(Ordering::Relaxed) {
+                let t = Instant::now();
+                if !matches!(try_request(addr, "GET", "/api/health", &[], &[]), Ok(r) if r.status == 200)
+                {
+                    failed += 1;
+                }
+                worst = worst.max(t.elapsed().as_secs_f64() * 1e3);
+                std::thread::sleep(Duration::from_millis(500));
+            }
+            (worst, failed)
+        })
+    };
+    let o = run(addr, clients, secs, op);
+    stop.store(true, Ordering::Relaxed);
+    let (worst_health, health_failed) = watcher.join().unwrap_or((f64::NAN, -1));
+    let hwm = std::fs::read_to_string(format!("/proc/{pid}/status"))
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find_map(|l| l.strip_prefix("VmHWM:"))
+                .map(|v| v.trim().to_owned())
+        })
+        .unwrap_or_default();
+    println!("load mix: {clients} clients, {secs} s, fresh connection per request, 127.0.0.1");
+    println!("mix per 10 requests: orders/{{n}}, smallest-known, metadata, a row, pm 16, npy 256, npy-f64 1024 (8 MiB), health, re-upload (200), new upload (201)\n");
+    println!("| requests | errors | req/s | p50 ms | p99 ms | server peak RSS | health worst ms (failed) |");
+    println!("|---:|---:|---:|---:|---:|---:|---:|");
+    println!(
+        "| {} | {} | {:.0} | {:.2} | {:.2} | {hwm} | {worst_health:.1} ({health_failed}) |",
+        o.requests,
+        o.errors,
+        o.requests as f64 / o.secs,
+        o.p50_ms,
+        o.p99_ms
+    );
 }

@@ -35,13 +35,29 @@ pub struct Config {
     pub readers: usize,
     /// The byte budget of the cache of verified matrices.
     pub cache_bytes: usize,
+    /// Connection limits (count, header, idle and write timeouts).
+    pub limits: crate::net::Limits,
+    /// How long an upload's body may take to arrive.
+    pub body_timeout: Duration,
+    /// The bytes of upload bodies held in memory at once, over all connections.
+    pub upload_buffer_bytes: usize,
+    /// The largest order an anonymous GET may build and store; above it the catalogue matrix
+    /// is built for the one answer and not stored.
+    pub store_max_order: usize,
 }
+
+/// The longest request target (path and query) answered; longer ones get a JSON 414.
+pub const MAX_URI_BYTES: usize = 8 * 1024;
+/// The most bytes of request headers answered; more get a JSON 431.
+pub const MAX_HEADER_BYTES: usize = 16 * 1024;
 
 /// What every handler can reach.
 pub struct AppState {
     pub catalogue: Catalogue,
     pub config: Config,
     pub heavy: Arc<Semaphore>,
+    /// Upload bytes held in memory, in KiB permits (see [`Config::upload_buffer_bytes`]).
+    pub upload_buffer: Arc<Semaphore>,
     builds: Mutex<HashMap<usize, Arc<tokio::sync::Mutex<()>>>>,
 }
 
@@ -77,6 +93,7 @@ pub fn open_state(config: Config) -> Result<AppState, StoreError> {
     Ok(AppState {
         catalogue: Catalogue::new(store, config.cache_bytes),
         heavy: Arc::new(Semaphore::new(config.heavy_jobs.max(1))),
+        upload_buffer: Arc::new(Semaphore::new((config.upload_buffer_bytes >> 10).max(1))),
         config,
         builds: Mutex::new(HashMap::new()),
     })
@@ -113,6 +130,8 @@ pub fn router(state: Arc<AppState>) -> Router {
         .route("/pkg/{file}", get(crate::web_assets::worker_file))
         .fallback(api::pages::fallback)
         .layer(middleware::from_fn_with_state(state.clone(), timeout))
+        .layer(middleware::from_fn(api_errors_as_json))
+        .layer(middleware::from_fn(head_limits))
         .layer(middleware::from_fn(security_headers))
         .layer(TraceLayer::new_for_http())
         .with_state(state)
@@ -139,6 +158,66 @@ async fn security_headers(req: Request, next: Next) -> Response {
     );
     h.insert(header::X_FRAME_OPTIONS, HeaderValue::from_static("DENY"));
     resp
+}
+
+/// Refuses request targets over [`MAX_URI_BYTES`] (414) and headers over [`MAX_HEADER_BYTES`]
+/// (431) with a JSON sentence, before any handler runs.
+async fn head_limits(req: Request, next: Next) -> Response {
+    let uri_len = req.uri().path_and_query().map_or(0, |p| p.as_str().len());
+    if uri_len > MAX_URI_BYTES {
+        return api::helpers::ApiError::new(
+            StatusCode::URI_TOO_LONG,
+            format!("the request target is {uri_len} bytes, over this server's limit of {MAX_URI_BYTES}"),
+        )
+        .with("limit", MAX_URI_BYTES)
+        .into_response();
+    }
+    let header_bytes: usize = req
+        .headers()
+        .iter()
+        .map(|(k, v)| k.as_str().len() + v.len() + 4)
+        .sum();
+    if header_bytes > MAX_HEADER_BYTES {
+        return api::helpers::ApiError::new(
+            StatusCode::REQUEST_HEADER_FIELDS_TOO_LARGE,
+            format!("the request headers are {header_bytes} bytes, over this server's limit of {MAX_HEADER_BYTES}"),
+        )
+        .with("limit", MAX_HEADER_BYTES)
+        .into_response();
+    }
+    next.run(req).await
+}
+
+/// Every error under `/api` is a JSON object with `"error"`: the few answers made outside the
+/// handlers (axum's rejections of a path or query it cannot decode, 405s) are rewritten with
+/// their text as the sentence.
+async fn api_errors_as_json(req: Request, next: Next) -> Response {
+    let is_api = req.uri().path() == "/api" || req.uri().path().starts_with("/api/");
+    let resp = next.run(req).await;
+    let status = resp.status();
+    if !is_api || !(status.is_client_error() || status.is_server_error()) {
+        return resp;
+    }
+    let is_json = resp
+        .headers()
+        .get(header::CONTENT_TYPE)
+        .and_then(|v| v.to_str().ok())
+        .is_some_and(|v| v.starts_with("application/json"));
+    if is_json {
+        return resp;
+    }
+    let (parts, body) = resp.into_parts();
+    let text = match axum::body::to_bytes(body, 4096).await {
+        Ok(b) if !b.is_empty() => String::from_utf8_lossy(&b).trim().to_owned(),
+        _ => status.canonical_reason().unwrap_or("error").to_owned(),
+    };
+    let mut out = api::helpers::ApiError::new(status, text).into_response();
+    for (k, v) in parts.headers.iter() {
+        if k != header::CONTENT_TYPE && k != header::CONTENT_LENGTH {
+            out.headers_mut().insert(k.clone(), v.clone());
+        }
+    }
+    out
 }
 
 async fn timeout(State(state): State<Arc<AppState>>, req: Request, next: Next) -> Response {
@@ -180,10 +259,16 @@ pub async fn run(config: Config) -> Result<(), String> {
     use std::io::Write;
     let _ = std::io::stdout().flush();
     tracing::info!(%local, "listening");
-    axum::serve(listener, router(state.clone()))
-        .with_graceful_shutdown(shutdown_signal())
-        .await
-        .map_err(|e| format!("server error: {e}"))?;
+    let limits = state.config.limits.clone();
+    let drain = state.config.request_timeout;
+    crate::net::serve(
+        listener,
+        router(state.clone()),
+        limits,
+        shutdown_signal(),
+        drain,
+    )
+    .await;
     let checkpointed =
         tokio::task::spawn_blocking(move || state.catalogue.store.write(crate::store::checkpoint))
             .await;

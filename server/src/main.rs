@@ -8,6 +8,7 @@ mod api;
 mod app;
 mod catalogue;
 mod cli;
+mod net;
 mod store;
 mod time;
 mod web_assets;

@@ -58,6 +58,20 @@ impl fmt::Display for DeriveError {
 
 impl std::error::Error for DeriveError {}
 
+/// A cell of text a user chose (a factor name, a level label) made safe for spreadsheets:
+/// one that starts with `=`, `+`, `-`, `@`, a tab or a carriage return would be read as a
+/// formula, so it gets a leading `'` (the usual neutralisation of CSV formula injection,
+/// common practice as described by OWASP). Numbers (`-1`, `+2.5`) are left alone: they are
+/// values, not names.
+pub fn csv_text_cell(s: &str) -> std::borrow::Cow<'_, str> {
+    let risky = s.starts_with(['=', '+', '-', '@', '\t', '\r']);
+    if risky && s.trim().parse::<f64>().is_err() {
+        std::borrow::Cow::Owned(format!("'{s}"))
+    } else {
+        std::borrow::Cow::Borrowed(s)
+    }
+}
+
 /// Writes `rows` as CSV: cells separated by commas, one row per line. Cells are quoted when
 /// they hold a comma, a quote or a line break (RFC 4180).
 pub fn write_csv<I, R, S>(rows: I, out: &mut dyn std::io::Write) -> std::io::Result<()>
@@ -124,8 +138,35 @@ pub(crate) fn orthogonal_and_balanced(rows: &[Vec<i8>], cols: usize) -> (bool, b
 /// The largest order codes and screening designs are made for: their output grows as n².
 pub const MAX_ORDER: usize = 8192;
 
+/// The most bytes a design's JSON or CSV may take, estimated from its runs, factors and level
+/// labels before it is built: the cell count alone does not bound the answer, since every
+/// cell of a CSV repeats a level label the user chose.
+pub const MAX_OUTPUT_BYTES: usize = 64 << 20;
+
 /// The most cells (runs × factors, replicates × strata) a design or replicate set may have.
 pub const MAX_CELLS: usize = 1 << 26;
+
+#[cfg(test)]
+mod csv_cell_tests {
+    use super::csv_text_cell;
+
+    #[test]
+    fn formula_like_names_are_neutralised_numbers_are_not() {
+        for (cell, out) in [
+            ("=HYPERLINK(\"x\")", "'=HYPERLINK(\"x\")"),
+            ("+cmd", "'+cmd"),
+            ("-2+3", "'-2+3"),
+            ("@SUM(A1)", "'@SUM(A1)"),
+            ("\tx", "'\tx"),
+            ("-1", "-1"),
+            ("+1", "+1"),
+            ("-2.5e3", "-2.5e3"),
+            ("temperature", "temperature"),
+        ] {
+            assert_eq!(csv_text_cell(cell), out, "{cell:?}");
+        }
+    }
+}
 
 #[cfg(test)]
 mod tests {

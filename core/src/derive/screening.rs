@@ -237,6 +237,26 @@ pub fn screening_design(
             format!("{runs_total} runs × {k} factors is more than the {} cells a design is made with; choose fewer factors", super::MAX_CELLS),
         ));
     }
+    // Each run writes, per factor, a level label (CSV) or a coded value such as `-1,` (JSON),
+    // plus its run number, standard order and kind; the header holds the names.
+    let per_run: usize = 48
+        + levels
+            .iter()
+            .map(|(l, h)| l.len().max(h.len()).max(3) + 3)
+            .sum::<usize>();
+    let bytes = runs_total
+        .saturating_mul(per_run)
+        .saturating_add(names.iter().map(|s| s.len() + 64).sum::<usize>());
+    if bytes > super::MAX_OUTPUT_BYTES {
+        return Err(DeriveError::new(
+            if cfg.centre_points > 0 { "centre-points" } else { "factors" },
+            format!(
+                "the design would take about {} MiB to write, more than the {} MiB a design may have; choose fewer factors or runs, or shorter level labels",
+                bytes >> 20,
+                super::MAX_OUTPUT_BYTES >> 20
+            ),
+        ));
+    }
     let factors: Vec<Factor> = names
         .into_iter()
         .zip(&columns)
@@ -337,7 +357,13 @@ impl ScreeningDesign {
             "standard_order".to_owned(),
             "kind".to_owned(),
         ];
-        header.extend(self.factors.iter().map(|f| f.name.clone()));
+        // Names and level labels are the user's text: neutralised against spreadsheet
+        // formulas (see `csv_text_cell`); the coded numbers are not touched.
+        header.extend(
+            self.factors
+                .iter()
+                .map(|f| super::csv_text_cell(&f.name).into_owned()),
+        );
         let body = self.runs.iter().map(|r| {
             let kind = match r.kind {
                 RunKind::Design => "design",
@@ -353,7 +379,7 @@ impl ScreeningDesign {
                 r.coded
                     .iter()
                     .enumerate()
-                    .map(|(f, &c)| self.level(f, c).to_owned()),
+                    .map(|(f, &c)| super::csv_text_cell(self.level(f, c)).into_owned()),
             );
             row
         });

@@ -57,11 +57,24 @@ impl Cursor<'_> {
             b"-1" | b"-1.0" => true,
             b"" => return Err(self.err(start, format!("expected 1 or -1, found {}", self.found()))),
             _ => match json_number(tok) {
-                Some(1.0) => false,
-                Some(-1.0) => true,
-                Some(_) => {
-                    return Err(self.err(start, format!("expected 1 or -1, found {}", shown(tok))))
-                }
+                Some(v) => match exact_unit(tok) {
+                    Some(negative) => negative,
+                    None if v == 1.0 || v == -1.0 => {
+                        return Err(self.err(
+                            start,
+                            format!(
+                                "{} is not exactly 1 or -1: it only rounds to {} in floating point; write 1 or -1",
+                                shown(tok),
+                                v
+                            ),
+                        ))
+                    }
+                    None => {
+                        return Err(
+                            self.err(start, format!("expected 1 or -1, found {}", shown(tok)))
+                        )
+                    }
+                },
                 None => {
                     return Err(self.err(start, format!("'{}' is not a JSON number", shown(tok))))
                 }
@@ -70,6 +83,35 @@ impl Cursor<'_> {
         self.pos += len;
         Ok(negative)
     }
+}
+
+/// For a token that follows JSON's number grammar: `Some(is_negative)` when its exact decimal
+/// value is 1 or −1 (`1`, `-1.0`, `1.00`, `10E-1`), `None` otherwise, so that numbers which
+/// only round to ±1 in binary floating point (`1.00000000000000011`,
+/// `-0.99999999999999999999`) are not taken for entries.
+fn exact_unit(tok: &[u8]) -> Option<bool> {
+    let negative = tok.first() == Some(&b'-');
+    let body = &tok[usize::from(negative)..];
+    let (mantissa, exp) = match body.iter().position(|c| matches!(c, b'e' | b'E')) {
+        Some(k) => (&body[..k], &body[k + 1..]),
+        None => (body, &b""[..]),
+    };
+    let (int, frac) = match mantissa.iter().position(|&c| c == b'.') {
+        Some(k) => (&mantissa[..k], &mantissa[k + 1..]),
+        None => (mantissa, &b""[..]),
+    };
+    // The value is digits × 10^(exp − |frac|); an exponent too long to matter is not ±1.
+    let exp: i64 = if exp.is_empty() {
+        0
+    } else {
+        std::str::from_utf8(exp).ok()?.parse().ok()?
+    };
+    let digits: Vec<u8> = int.iter().chain(frac).copied().collect();
+    let first = digits.iter().position(|&c| c != b'0')?;
+    let last = digits.iter().rposition(|&c| c != b'0')?;
+    let trailing = (digits.len() - 1 - last) as i64;
+    let scale = exp.checked_sub(frac.len() as i64)?.checked_add(trailing)?;
+    (first == last && digits[first] == b'1' && scale == 0).then_some(negative)
 }
 
 /// The value of a token that follows JSON's number grammar exactly, else `None`.
@@ -215,5 +257,41 @@ mod tests {
         for t in ["01", "+1", "1.", ".5", "1e", "--1", "1-", "-"] {
             assert_eq!(json_number(t.as_bytes()), None, "{t}");
         }
+    }
+
+    /// Exact decimal ±1 only: the nearest binary64 of the first two rejected tokens is ±1
+    /// (IEEE 754 round to nearest; Python's `float('1.00000000000000011') == 1.0` agrees).
+    #[test]
+    fn entries_must_be_exactly_one() {
+        for (t, neg) in [
+            ("1", false),
+            ("-1", true),
+            ("1.0", false),
+            ("-1.00", true),
+            ("1e0", false),
+            ("10E-1", false),
+            ("0.1e1", false),
+            ("-100e-2", true),
+        ] {
+            assert_eq!(exact_unit(t.as_bytes()), Some(neg), "{t}");
+        }
+        for t in [
+            "1.00000000000000011",
+            "-0.99999999999999999999",
+            "0",
+            "-0.0",
+            "2",
+            "11e-1",
+            "1e99999999999999999999",
+            "0.1",
+        ] {
+            assert_eq!(exact_unit(t.as_bytes()), None, "{t}");
+        }
+        assert_eq!(json_number(b"1.00000000000000011"), Some(1.0));
+        assert_eq!(json_number(b"-0.99999999999999999999"), Some(-1.0));
+        let opts = ReadOptions::default();
+        let e = read(b"[[1, 1],\n [1, -0.99999999999999999999]]", &opts).unwrap_err();
+        assert_eq!(e.location, Location::LineCol { line: 2, col: 6 }, "{e}");
+        assert!(e.to_string().contains("not exactly"), "{e}");
     }
 }

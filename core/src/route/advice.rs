@@ -1,7 +1,7 @@
 //! Answers for users who need a size rather than an order: dimensions d = 2^a·m₀, and the
 //! smallest usable order at least k.
 
-use super::{order_possible, OrderInfo, Planner, Status};
+use super::{order_possible, OrderInfo, Planner, Status, MAX_BUILD_ORDER};
 use serde::{Deserialize, Serialize};
 
 /// One way to write a dimension as a power of two times a Hadamard order.
@@ -94,10 +94,20 @@ pub fn dimension_advice(d: u64) -> Advice {
     }
 }
 
-fn smallest_with(k: u64, ok: impl Fn(Status) -> bool) -> Option<OrderInfo> {
+/// How far past k the smallest-order searches look: orders k to k + this. Without a bound, a
+/// search for a constructible order above [`MAX_BUILD_ORDER`] never ends (nothing above it is
+/// constructible) and the planner's memo grows with every order stepped over.
+pub const SMALLEST_SEARCH_SPAN: u64 = 4096;
+
+/// The last order the searches from k look at (see [`SMALLEST_SEARCH_SPAN`]).
+pub fn smallest_search_limit(k: u64) -> u64 {
+    k.max(1).saturating_add(SMALLEST_SEARCH_SPAN)
+}
+
+fn smallest_with(k: u64, limit: u64, ok: impl Fn(Status) -> bool) -> Option<OrderInfo> {
     let mut p = Planner::new();
     let mut n = k.max(1);
-    loop {
+    while n <= limit {
         if order_possible(n) && ok(p.status(n)) {
             return Some(p.order_info(n));
         }
@@ -107,15 +117,24 @@ fn smallest_with(k: u64, ok: impl Fn(Status) -> bool) -> Option<OrderInfo> {
             n.checked_add(4 - n % 4)?
         };
     }
+    None
 }
 
 /// The smallest order n ≥ k that is constructible or known. For balanced repeated replication
 /// with k strata, ask for k + 1, so that a replicate set can avoid the constant column.
+///
+/// None when there is none up to [`smallest_search_limit`]`(k)`.
 pub fn smallest_known_at_least(k: u64) -> Option<OrderInfo> {
-    smallest_with(k, |s| matches!(s, Status::Constructible | Status::Known))
+    smallest_with(k, smallest_search_limit(k), |s| {
+        matches!(s, Status::Constructible | Status::Known)
+    })
 }
 
-/// The smallest order n ≥ k that this program builds now.
+/// The smallest order n ≥ k that this program builds now. None when there is none up to
+/// [`smallest_search_limit`]`(k)` or [`MAX_BUILD_ORDER`], whichever is smaller: nothing above
+/// the build limit is constructible, so a k above it is answered at once.
 pub fn smallest_constructible_at_least(k: u64) -> Option<OrderInfo> {
-    smallest_with(k, |s| s == Status::Constructible)
+    smallest_with(k, smallest_search_limit(k).min(MAX_BUILD_ORDER), |s| {
+        s == Status::Constructible
+    })
 }

@@ -25,7 +25,8 @@ mod plan;
 mod tests;
 
 pub use advice::{
-    dimension_advice, smallest_constructible_at_least, smallest_known_at_least, Advice, Factoring,
+    dimension_advice, smallest_constructible_at_least, smallest_known_at_least,
+    smallest_search_limit, Advice, Factoring, SMALLEST_SEARCH_SPAN,
 };
 pub use build::{
     build, build_order, build_recipe, recipe_for, BuildError, Recipe, MAX_BUILD_ORDER,

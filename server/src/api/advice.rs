@@ -21,7 +21,8 @@ pub async fn dimension(State(state): State<Arc<AppState>>, Path(d): Path<String>
 
 /// `GET /api/smallest-known?at-least=k[&constructible=true]`: the smallest order n ≥ k that
 /// is known (or, with `constructible=true`, that this program builds now), as the
-/// `routes --json` object of n. 404 when there is none below the planner's range.
+/// `routes --json` object of n. 404 when there is none from k to k + 4096 (constructible:
+/// none up to the build limit 32768; a k above it is answered at once).
 pub async fn smallest_known(
     State(state): State<Arc<AppState>>,
     Query(q): Query<HashMap<String, String>>,
@@ -47,14 +48,32 @@ pub async fn smallest_known(
     .await?;
     match found {
         Some(info) => Ok(Json(info).into_response()),
-        None => Err(ApiError::not_found(format!(
-            "no {} order at least {k} was found",
-            if constructible {
+        None => {
+            let limit = if constructible {
+                route::smallest_search_limit(k).min(route::MAX_BUILD_ORDER)
+            } else {
+                route::smallest_search_limit(k)
+            };
+            let what = if constructible {
                 "constructible"
             } else {
                 "known"
+            };
+            let why = if constructible && k > route::MAX_BUILD_ORDER {
+                format!(
+                    "no order above the build limit {} is constructible here",
+                    route::MAX_BUILD_ORDER
+                )
+            } else {
+                format!("none from {k} up to the search limit {limit}")
+            };
+            let mut e =
+                ApiError::not_found(format!("no {what} order at least {k} was found: {why}"))
+                    .with("at_least", k);
+            if limit >= k {
+                e = e.with("searched_up_to", limit);
             }
-        ))
-        .with("at_least", k)),
+            Err(e)
+        }
     }
 }

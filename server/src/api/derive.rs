@@ -3,7 +3,7 @@
 //! its query into core's configuration, runs core on a heavy thread, and writes JSON or the
 //! object's own file format. A parameter that is wrong is a 400 naming it.
 
-use super::helpers::{heavy, parse_id, truncate, ApiError, ApiResult};
+use super::helpers::{heavy, parse_id, stream_body, stream_json, truncate, ApiError, ApiResult};
 use super::orders::catalogue_entry;
 use crate::app::AppState;
 use axum::body::Body;
@@ -23,7 +23,7 @@ use hadamard_core::derive::DeriveError;
 use hadamard_core::formats::{self, WriteFormat};
 use hadamard_core::route;
 use hadamard_core::verify::Verified;
-use serde_json::{json, Value};
+use serde_json::Value;
 use std::collections::HashMap;
 use std::sync::Arc;
 
@@ -81,10 +81,15 @@ fn list(q: &Q, name: &str) -> Option<Vec<String>> {
         .map(|s| s.split(',').map(|x| x.trim().to_owned()).collect())
 }
 
-/// A text or binary answer, as an attachment named after the matrix and the object.
-fn file(bytes: Vec<u8>, media: &'static str, v: &Verified, what: &str, ext: &str) -> Response {
+/// The most bytes one ordering answer may have (it streams, so this bounds the work and the
+/// bandwidth, not memory): order 8192 as scaled CSV or JSON (about 1.4 GB) is refused, its
+/// npy-f64 (512 MiB) is not.
+pub const ORDERING_MAX_BYTES: u64 = 512 << 20;
+
+/// A streamed text or binary answer, as an attachment named after the matrix and the object.
+fn file(body: Body, media: &'static str, v: &Verified, what: &str, ext: &str) -> Response {
     let name = format!("hadamard-{}-{}-{what}.{ext}", v.order(), &v.id()[..12]);
-    let mut resp = (StatusCode::OK, Body::from(bytes)).into_response();
+    let mut resp = (StatusCode::OK, body).into_response();
     let h = resp.headers_mut();
     h.insert(header::CONTENT_TYPE, HeaderValue::from_static(media));
     if let Ok(d) = HeaderValue::from_str(&format!("attachment; filename=\"{name}\"")) {
@@ -93,21 +98,24 @@ fn file(bytes: Vec<u8>, media: &'static str, v: &Verified, what: &str, ext: &str
     resp
 }
 
-fn csv_or_json<T: serde::Serialize>(
+/// The object as streamed JSON (serde writes it straight out, no tree of values) or as its
+/// CSV, streamed too.
+fn csv_or_json<T: serde::Serialize + Send + 'static>(
     q: &Q,
     v: &Verified,
     what: &str,
-    obj: &T,
-    csv: impl FnOnce(&mut Vec<u8>) -> std::io::Result<()>,
+    obj: T,
+    csv: fn(&T, &mut dyn std::io::Write) -> std::io::Result<()>,
 ) -> ApiResult {
     match q.get("format").map(String::as_str).unwrap_or("json") {
-        "json" => Ok(Json(serde_json::to_value(obj).unwrap_or(Value::Null)).into_response()),
-        "csv" => {
-            let mut buf = Vec::new();
-            csv(&mut buf)
-                .map_err(|e| ApiError::internal(format!("could not write the CSV: {e}")))?;
-            Ok(file(buf, "text/csv; charset=utf-8", v, what, "csv"))
-        }
+        "json" => Ok(stream_json(obj)),
+        "csv" => Ok(file(
+            stream_body(move |w| csv(&obj, w)),
+            "text/csv; charset=utf-8",
+            v,
+            what,
+            "csv",
+        )),
         other => Err(ApiError::bad_request(format!(
             "format must be json or csv here, not `{}`",
             truncate(other, 40)
@@ -204,7 +212,7 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                 (false, None) => "screening".to_string(),
             };
             let d = screening_design(v, &cfg).map_err(bad)?;
-            csv_or_json(q, v, &what, &d, |b| d.write_csv(b))
+            csv_or_json(q, v, &what, d, |d, b| d.write_csv(b))
         }
         "brr" => {
             let k = number(q, "strata")?.ok_or_else(|| {
@@ -212,7 +220,7 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                     .with("parameter", "strata")
             })?;
             let r = replication(v, k).map_err(bad)?;
-            csv_or_json(q, v, "brr", &r, |b| r.write_csv(b))
+            csv_or_json(q, v, "brr", r, |r, b| r.write_csv(b))
         }
         "code" => {
             let variant = q
@@ -222,11 +230,11 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                 .parse()
                 .map_err(bad)?;
             let c = hadamard_code(v, variant).map_err(bad)?;
-            csv_or_json(q, v, "code", &c, |b| c.write_csv(b))
+            csv_or_json(q, v, "code", c, |c, b| c.write_csv(b))
         }
         "symmetric-design" => {
             let d = symmetric_design(v).map_err(bad)?;
-            csv_or_json(q, v, "symmetric-design", &d, |b| d.write_csv(b))
+            csv_or_json(q, v, "symmetric-design", d, |d, b| d.write_csv(b))
         }
         "sequency" => Ok(Json(sequency_report(v.matrix())).into_response()),
         _ => ordering(v, q),
@@ -264,9 +272,10 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
         q.get("order").map(String::as_str).unwrap_or("natural"),
         if scaled { "-scaled" } else { "" }
     );
-    let mut buf = Vec::new();
-    let m = r.matrix.matrix();
-    let (media, ext) = if scaled {
+    let n = r.matrix.order() as u64;
+    let id = r.matrix.id().to_owned();
+    let source = r.matrix;
+    let (body, media, ext, bytes) = if scaled {
         let (f, media, ext) = match name {
             "csv" => (ScaledFormat::Csv, "text/csv; charset=utf-8", "csv"),
             "json" => (ScaledFormat::Json, "application/json", "json"),
@@ -281,8 +290,15 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
                 .with("parameter", "format"))
             }
         };
-        let _ = write_scaled(m, f, &mut buf);
-        (media, ext)
+        // ±1/√n written by Rust's shortest round-trip float printing, with a separator.
+        let s = 1.0 / (n.max(1) as f64).sqrt();
+        let cell = format!("{}", -s).len() as u64 + 1;
+        let bytes = match f {
+            ScaledFormat::Npy => 8 * n * n + 128,
+            _ => n * n * cell + 8 * n + 512,
+        };
+        let body = stream_body(move |w| write_scaled(source.matrix(), f, w));
+        (body, media, ext, bytes)
     } else {
         let f: WriteFormat = name.parse().map_err(|_| {
             ApiError::bad_request(format!(
@@ -297,11 +313,27 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
                     .with("parameter", "format"),
             );
         }
-        formats::write(m, &f, &mut buf);
-        (f.media_type(), f.extension())
+        // The largest cell is a JSON `-1,` (3 bytes) or an npy float64 (8).
+        let per = match f {
+            WriteFormat::NpyF64 { .. } => 8,
+            WriteFormat::Png { .. } => 1,
+            _ => 3,
+        };
+        let bytes = per * n * n + 8 * n + 512;
+        let (media, ext) = (f.media_type(), f.extension());
+        let body = stream_body(move |w| formats::write_to(source.matrix(), &f, w));
+        (body, media, ext, bytes)
     };
-    let mut resp = file(buf, media, v, &what, ext);
-    if let Ok(h) = HeaderValue::from_str(r.matrix.id()) {
+    if bytes > ORDERING_MAX_BYTES {
+        return Err(ApiError::new(
+            StatusCode::UNPROCESSABLE_ENTITY,
+            format!("this answer would be about {} MiB, over this server's limit of {} MiB for an ordering; ask for a smaller format (npy-f64 for floats, bits or npy for ±1)", bytes >> 20, ORDERING_MAX_BYTES >> 20),
+        )
+        .with("parameter", "format")
+        .with("limit_bytes", ORDERING_MAX_BYTES));
+    }
+    let mut resp = file(body, media, v, &what, ext);
+    if let Ok(h) = HeaderValue::from_str(&id) {
         resp.headers_mut().insert("x-matrix-id", h);
     }
     resp.headers_mut().insert(
@@ -347,18 +379,29 @@ pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiR
         .await?
         .map_err(bad)?;
     if q.get("format").map(String::as_str) == Some("csv") {
-        let mut buf = Vec::new();
-        r.write_csv(&mut buf)
-            .map_err(|e| ApiError::internal(e.to_string()))?;
-        return Ok(file(buf, "text/csv; charset=utf-8", &v, "brr", "csv"));
+        return Ok(file(
+            stream_body(move |w| r.write_csv(w)),
+            "text/csv; charset=utf-8",
+            &v,
+            "brr",
+            "csv",
+        ));
     }
-    let mut body = serde_json::to_value(&r).unwrap_or(Value::Null);
-    if let Value::Object(o) = &mut body {
-        o.insert("smallest_known_order".into(), json!(known));
-        o.insert("smallest_constructible_order".into(), json!(n));
-        o.insert("url".into(), json!(format!("/m/{id}")));
+    /// The replicates with the orders beside them, written straight out.
+    #[derive(serde::Serialize)]
+    struct Answer<T> {
+        #[serde(flatten)]
+        replication: T,
+        smallest_known_order: Option<u64>,
+        smallest_constructible_order: u64,
+        url: String,
     }
-    Ok(Json(body).into_response())
+    Ok(stream_json(Answer {
+        replication: r,
+        smallest_known_order: known,
+        smallest_constructible_order: n,
+        url: format!("/m/{id}"),
+    }))
 }
 
 /// `GET /api/equivalence?a=ID&b=ID[&budget=N]`: are two stored matrices equivalent?

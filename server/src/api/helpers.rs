@@ -55,7 +55,52 @@ impl IntoResponse for ApiError {
 impl From<StoreError> for ApiError {
     fn from(e: StoreError) -> ApiError {
         tracing::error!(error = %e, "store error");
-        ApiError::internal("the catalogue's database failed; the error is logged")
+        match storage_trouble(&e) {
+            Some(Trouble::Full) => ApiError::new(
+                StatusCode::INSUFFICIENT_STORAGE,
+                "the catalogue's disk is full: nothing was stored; what was stored before is intact",
+            )
+            .with("kind", "disk_full"),
+            Some(Trouble::ReadOnly) => ApiError::new(
+                StatusCode::SERVICE_UNAVAILABLE,
+                "the catalogue's database is read-only just now: nothing was stored; reading still works",
+            )
+            .with("kind", "read_only"),
+            None => ApiError::internal("the catalogue's database failed; the error is logged"),
+        }
+    }
+}
+
+/// What a failed write says about the disk.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Trouble {
+    /// No space left (SQLITE_FULL, ENOSPC).
+    Full,
+    /// The file or its file system cannot be written (SQLITE_READONLY, EROFS, EACCES).
+    ReadOnly,
+}
+
+/// Tells disk-full and read-only failures apart from others.
+pub fn storage_trouble(e: &StoreError) -> Option<Trouble> {
+    use rusqlite::ErrorCode;
+    match e {
+        StoreError::Sqlite(rusqlite::Error::SqliteFailure(f, _)) => match f.code {
+            ErrorCode::DiskFull => Some(Trouble::Full),
+            ErrorCode::ReadOnly | ErrorCode::CannotOpen | ErrorCode::PermissionDenied => {
+                Some(Trouble::ReadOnly)
+            }
+            _ => None,
+        },
+        _ => None,
+    }
+}
+
+/// The matching trouble of an I/O error, for the health probe.
+pub fn io_trouble(e: &std::io::Error) -> Option<Trouble> {
+    match e.raw_os_error() {
+        Some(28) | Some(122) => Some(Trouble::Full), // ENOSPC, EDQUOT
+        Some(30) | Some(13) | Some(1) => Some(Trouble::ReadOnly), // EROFS, EACCES, EPERM
+        _ => None,
     }
 }
 
@@ -177,4 +222,144 @@ pub fn immutable_headers(etag: &str) -> [(header::HeaderName, HeaderValue); 2] {
 /// A 304 for `etag`.
 pub fn not_modified(etag: &str) -> Response {
     (StatusCode::NOT_MODIFIED, immutable_headers(etag)).into_response()
+}
+
+/// The size of the pieces a streamed answer is sent in.
+pub const STREAM_CHUNK: usize = 64 * 1024;
+/// How many pieces may wait between the writer and the connection: with the piece being
+/// filled, a streamed answer holds at most (this + 1) × [`STREAM_CHUNK`] bytes in the server.
+pub const STREAM_QUEUE: usize = 4;
+
+/// A body that streams what `write` writes, from a blocking thread, in [`STREAM_CHUNK`]
+/// pieces through a queue of [`STREAM_QUEUE`]: memory stays bounded whatever the answer's
+/// size. When the client goes away (or stops reading and the connection's write timeout
+/// drops it) the queue closes, the next write fails, and the writer stops. A writer error
+/// aborts the body, so a client never takes a cut-short answer for a whole one.
+pub fn stream_body(
+    write: impl FnOnce(&mut dyn std::io::Write) -> std::io::Result<()> + Send + 'static,
+) -> axum::body::Body {
+    let (tx, rx) = tokio::sync::mpsc::channel::<std::io::Result<bytes::Bytes>>(STREAM_QUEUE);
+    tokio::task::spawn_blocking(move || {
+        let mut w = ChannelWriter {
+            tx: tx.clone(),
+            buf: Vec::with_capacity(STREAM_CHUNK),
+        };
+        let r = write(&mut w).and_then(|()| std::io::Write::flush(&mut w));
+        if let Err(e) = r {
+            if !tx.is_closed() {
+                tracing::warn!(error = %e, "a streamed answer failed part way");
+                let _ = tx.blocking_send(Err(e));
+            }
+        }
+    });
+    axum::body::Body::new(ChannelBody(rx))
+}
+
+struct ChannelWriter {
+    tx: tokio::sync::mpsc::Sender<std::io::Result<bytes::Bytes>>,
+    buf: Vec<u8>,
+}
+
+impl ChannelWriter {
+    fn send(&mut self) -> std::io::Result<()> {
+        if self.buf.is_empty() {
+            return Ok(());
+        }
+        let piece = std::mem::replace(&mut self.buf, Vec::with_capacity(STREAM_CHUNK));
+        self.tx
+            .blocking_send(Ok(bytes::Bytes::from(piece)))
+            .map_err(|_| std::io::Error::new(std::io::ErrorKind::BrokenPipe, "the client left"))
+    }
+}
+
+impl std::io::Write for ChannelWriter {
+    fn write(&mut self, data: &[u8]) -> std::io::Result<usize> {
+        if self.buf.len() >= STREAM_CHUNK {
+            self.send()?;
+        }
+        let room = STREAM_CHUNK - self.buf.len();
+        let k = data.len().min(room);
+        self.buf.extend_from_slice(&data[..k]);
+        Ok(k)
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        self.send()
+    }
+}
+
+struct ChannelBody(tokio::sync::mpsc::Receiver<std::io::Result<bytes::Bytes>>);
+
+impl http_body::Body for ChannelBody {
+    type Data = bytes::Bytes;
+    type Error = std::io::Error;
+
+    fn poll_frame(
+        mut self: std::pin::Pin<&mut Self>,
+        cx: &mut std::task::Context<'_>,
+    ) -> std::task::Poll<Option<Result<http_body::Frame<bytes::Bytes>, std::io::Error>>> {
+        self.0
+            .poll_recv(cx)
+            .map(|o| o.map(|r| r.map(http_body::Frame::data)))
+    }
+}
+
+/// A streamed JSON answer, written by serde straight into the stream (no tree of values).
+pub fn stream_json<T: serde::Serialize + Send + 'static>(value: T) -> Response {
+    let body =
+        stream_body(move |w| serde_json::to_writer(&mut *w, &value).map_err(std::io::Error::other));
+    (
+        [(
+            header::CONTENT_TYPE,
+            HeaderValue::from_static("application/json"),
+        )],
+        body,
+    )
+        .into_response()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A real SQLite file that cannot grow (`max_page_count`, SQLite's documented limit that
+    /// makes writes fail with SQLITE_FULL) and one opened read-only (SQLITE_READONLY): the
+    /// answers are 507 and 503 with a sentence, not a bare 500.
+    #[test]
+    fn full_and_read_only_disks_get_their_own_answers() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("t.sqlite3");
+        let c = rusqlite::Connection::open(&path).unwrap();
+        c.execute_batch("CREATE TABLE t (x BLOB); PRAGMA max_page_count = 3;")
+            .unwrap();
+        let full = c
+            .execute("INSERT INTO t VALUES (zeroblob(100000))", [])
+            .unwrap_err();
+        let e = ApiError::from(StoreError::Sqlite(full));
+        assert_eq!(e.status, StatusCode::INSUFFICIENT_STORAGE, "{:?}", e.body);
+        assert_eq!(e.body["kind"], "disk_full");
+        drop(c);
+        let ro = rusqlite::Connection::open_with_flags(
+            &path,
+            rusqlite::OpenFlags::SQLITE_OPEN_READ_ONLY,
+        )
+        .unwrap();
+        let denied = ro.execute("INSERT INTO t VALUES (1)", []).unwrap_err();
+        let e = ApiError::from(StoreError::Sqlite(denied));
+        assert_eq!(e.status, StatusCode::SERVICE_UNAVAILABLE, "{:?}", e.body);
+        assert_eq!(e.body["kind"], "read_only");
+        assert!(e.body["error"].as_str().unwrap().contains("read-only"));
+        // Other failures stay 500.
+        let e = ApiError::from(StoreError::Corrupt("x".into()));
+        assert_eq!(e.status, StatusCode::INTERNAL_SERVER_ERROR);
+        // The health probe's own file write: ENOSPC and EROFS (Linux errno values).
+        assert_eq!(
+            io_trouble(&std::io::Error::from_raw_os_error(28)),
+            Some(Trouble::Full)
+        );
+        assert_eq!(
+            io_trouble(&std::io::Error::from_raw_os_error(30)),
+            Some(Trouble::ReadOnly)
+        );
+    }
 }

@@ -1,8 +1,8 @@
 //! `/api/matrices`: upload, metadata, downloads and single rows of stored matrices.
 
 use super::helpers::{
-    blocking, heavy, if_none_match, immutable_headers, not_modified, parse_id, truncate, ApiError,
-    ApiResult,
+    blocking, heavy, if_none_match, immutable_headers, not_modified, parse_id, stream_body,
+    truncate, ApiError, ApiResult,
 };
 use crate::app::AppState;
 use crate::catalogue::{Equivalence, Ingested, UploadError, UploadOutcome};
@@ -77,21 +77,17 @@ pub async fn upload(
             ))
         }
     }
-    let bytes = match Limited::new(body, limit).collect().await {
-        Ok(c) => c.to_bytes(),
-        Err(e) if e.downcast_ref::<LengthLimitError>().is_some() => return Err(too_large()),
-        Err(e) => {
-            return Err(ApiError::bad_request(format!(
-                "could not read the request body: {e}"
-            )))
-        }
-    };
+    let (bytes, held) = read_upload(&state, body, limit, too_large).await?;
     if bytes.is_empty() {
         return Err(ApiError::bad_request(
             "the body is empty: send the matrix file as the raw request body",
         ));
     }
-    let outcome = heavy(&state, move |c| c.upload(&bytes, &opts)).await?;
+    let outcome = heavy(&state, move |c| {
+        let _held = held;
+        c.upload(&bytes, &opts)
+    })
+    .await?;
     match outcome {
         Ok(UploadOutcome::Stored(ing)) => {
             let status = if ing.created { StatusCode::CREATED } else { StatusCode::OK };
@@ -124,6 +120,72 @@ pub async fn upload(
         .with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
         Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string()).with("kind", "malformed").with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
         Err(UploadError::Store(e)) => Err(e.into()),
+    }
+}
+
+/// Reads an upload's body within `--body-timeout`, counting every byte held against the
+/// server-wide `--upload-buffer-mib`; the permits travel with the bytes until the upload is
+/// parsed and checked.
+async fn read_upload(
+    state: &Arc<AppState>,
+    body: Body,
+    limit: usize,
+    too_large: impl Fn() -> ApiError,
+) -> ApiResult<(bytes::Bytes, tokio::sync::OwnedSemaphorePermit)> {
+    let deadline = state.config.body_timeout;
+    let budget = state.config.upload_buffer_bytes;
+    let busy = || {
+        ApiError::new(
+            StatusCode::SERVICE_UNAVAILABLE,
+            format!("the server is receiving as many uploads as it holds at once ({} MiB, --upload-buffer-mib); retry in a moment", budget >> 20),
+        )
+    };
+    // One KiB permit up front, so that the permit handle exists; more as bytes arrive.
+    let mut held = state
+        .upload_buffer
+        .clone()
+        .try_acquire_owned()
+        .map_err(|_| busy())?;
+    let mut held_kib = 1usize;
+    let mut buf = bytes::BytesMut::new();
+    let mut body = Limited::new(body, limit);
+    let read = async {
+        while let Some(frame) = body.frame().await {
+            let frame = match frame {
+                Ok(f) => f,
+                Err(e) if e.downcast_ref::<LengthLimitError>().is_some() => return Err(too_large()),
+                Err(e) => {
+                    return Err(ApiError::bad_request(format!(
+                        "could not read the request body: {e}"
+                    )))
+                }
+            };
+            if let Ok(data) = frame.into_data() {
+                let need = (buf.len() + data.len()).div_ceil(1024);
+                if need > held_kib {
+                    let more = state
+                        .upload_buffer
+                        .clone()
+                        .try_acquire_many_owned((need - held_kib) as u32)
+                        .map_err(|_| busy())?;
+                    held.merge(more);
+                    held_kib = need;
+                }
+                buf.extend_from_slice(&data);
+            }
+        }
+        Ok(())
+    };
+    match tokio::time::timeout(deadline, read).await {
+        Ok(Ok(())) => Ok((buf.freeze(), held)),
+        Ok(Err(e)) => Err(e),
+        Err(_) => Err(ApiError::new(
+            StatusCode::REQUEST_TIMEOUT,
+            format!(
+                "the body did not arrive within this server's limit of {} s (--body-timeout)",
+                deadline.as_secs()
+            ),
+        )),
     }
 }
 
@@ -339,20 +401,15 @@ pub async fn download(
         return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
     }
     let key = id.clone();
-    let f = format.clone();
-    let out = heavy(&state, move |c| {
-        c.load(&key).map(|v| {
-            v.map(|v| {
-                let mut buf = Vec::new();
-                formats::write(v.matrix(), &f, &mut buf);
-                (v.order(), buf)
-            })
-        })
-    })
-    .await??;
-    let Some((n, bytes)) = out else {
+    // Loading (and re-checking) takes a heavy permit; writing the answer does not: it streams
+    // from its own thread through a bounded queue, at the client's pace.
+    let v = heavy(&state, move |c| c.load(&key)).await??;
+    let Some(v) = v else {
         return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
     };
+    let n = v.order();
+    let f = format.clone();
+    let body = stream_body(move |w| formats::write_to(v.matrix(), &f, w));
     // Each format has its own name, so the three `.npy` variants never overwrite each other.
     let filename = match format {
         WriteFormat::Pm => format!("hadamard-{n}-{}.txt", &id[..12]),
@@ -365,7 +422,7 @@ pub async fn download(
             format.extension()
         ),
     };
-    let mut resp = (StatusCode::OK, immutable_headers(&etag), Body::from(bytes)).into_response();
+    let mut resp = (StatusCode::OK, immutable_headers(&etag), body).into_response();
     let h = resp.headers_mut();
     h.insert(
         header::CONTENT_TYPE,

@@ -68,6 +68,32 @@ pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> 
         .with("limit", max));
     }
     let n = n as usize;
+    // Build-on-GET policy: an anonymous request builds and stores orders up to
+    // --store-max-order; above it only an entry the operator built is served.
+    if n > state.config.store_max_order {
+        let found = blocking(state, move |c| {
+            c.store.read(|db| matrices::catalogue_entry(db, n))
+        })
+        .await??;
+        let Some((id, recipe_json, _)) = found else {
+            let limit = state.config.store_max_order;
+            return Err(ApiError::new(
+                StatusCode::UNPROCESSABLE_ENTITY,
+                format!("order {n} is not in this catalogue yet, and this server builds and stores on request only up to order {limit} (--store-max-order); `hadamard build {n}` makes it on your machine"),
+            )
+            .with("order", n)
+            .with("kind", "not_built")
+            .with("limit", limit));
+        };
+        return Ok(json!({
+            "order": n,
+            "id": id,
+            "url": format!("/m/{id}"),
+            "api_url": format!("/api/matrices/{id}"),
+            "built_now": false,
+            "recipe": serde_json::from_str::<Value>(&recipe_json).unwrap_or(Value::Null),
+        }));
+    }
     // One build per order at a time: later requests wait and then find it stored.
     let lock = state.build_lock(n);
     let _guard = lock.lock().await;
@@ -119,7 +145,7 @@ pub async fn list(
     })
     .await??;
     let mut built = false;
-    if stored == 0 && n <= state.config.max_order as u64 {
+    if stored == 0 && n <= state.config.max_order.min(state.config.store_max_order) as u64 {
         let status = heavy(&state, move |_| route::order_info(n).status).await?;
         if status == route::Status::Constructible {
             built = catalogue_entry(&state, n)

@@ -63,12 +63,24 @@ pub fn run(args: AdviseArgs) -> ExitCode {
                 i.order,
                 status_name(&i.status)
             ),
-            None => println!("no known order ≥ {k} within the planner's reach"),
+            None => println!(
+                "no known order from {k} up to the search limit {}",
+                route::smallest_search_limit(k)
+            ),
         }
-        if let Some(b) = &built {
-            if known.as_ref().map(|i| i.order) != Some(b.order) {
-                println!("smallest this program builds: {}", b.order);
+        match &built {
+            Some(b) if known.as_ref().map(|i| i.order) != Some(b.order) => {
+                println!("smallest this program builds: {}", b.order)
             }
+            Some(_) => {}
+            None if k > route::MAX_BUILD_ORDER => println!(
+                "this program builds nothing at least {k}: its build limit is {}",
+                route::MAX_BUILD_ORDER
+            ),
+            None => println!(
+                "this program builds no order from {k} up to {}",
+                route::smallest_search_limit(k).min(route::MAX_BUILD_ORDER)
+            ),
         }
     }
     ExitCode::SUCCESS

@@ -40,6 +40,29 @@ pub struct ServeArgs {
     /// The memory kept for verified matrices served recently, in MiB.
     #[arg(long, value_name = "MIB", default_value_t = 256)]
     cache_mib: usize,
+    /// The most connections open at once; one more gets a 503 at once and is closed.
+    #[arg(long, value_name = "N", default_value_t = 512)]
+    max_connections: usize,
+    /// Seconds a client has to send a request's head (request line and headers).
+    #[arg(long, value_name = "SECONDS", default_value_t = 10)]
+    header_timeout: u64,
+    /// Seconds a connection may stay open with no byte moving either way (keep-alive idle).
+    #[arg(long, value_name = "SECONDS", default_value_t = 30)]
+    idle_timeout: u64,
+    /// Seconds a write to a client may wait without progress (a client that stops reading
+    /// its download is dropped).
+    #[arg(long, value_name = "SECONDS", default_value_t = 30)]
+    write_timeout: u64,
+    /// Seconds an upload's body may take to arrive in full (then 408).
+    #[arg(long, value_name = "SECONDS", default_value_t = 30)]
+    body_timeout: u64,
+    /// MiB of upload bodies held in memory at once over all connections (more get 503).
+    #[arg(long, value_name = "MIB", default_value_t = 256)]
+    upload_buffer_mib: usize,
+    /// The largest catalogue order an anonymous GET builds and stores; larger buildable
+    /// orders are built for the one answer and not stored (`hadamard build` stores any).
+    #[arg(long, value_name = "N", default_value_t = 2048)]
+    store_max_order: usize,
     /// Log one JSON object a line instead of text.
     #[arg(long)]
     log_json: bool,
@@ -59,6 +82,15 @@ pub fn run(args: ServeArgs) -> ExitCode {
         heavy_jobs: args.heavy_jobs.unwrap_or(cores).max(1),
         readers: args.readers.max(1),
         cache_bytes: args.cache_mib << 20,
+        limits: crate::net::Limits {
+            max_connections: args.max_connections.max(1),
+            header_timeout: Duration::from_secs(args.header_timeout.max(1)),
+            idle_timeout: Duration::from_secs(args.idle_timeout.max(1)),
+            write_timeout: Duration::from_secs(args.write_timeout.max(1)),
+        },
+        body_timeout: Duration::from_secs(args.body_timeout.max(1)),
+        upload_buffer_bytes: args.upload_buffer_mib.max(1) << 20,
+        store_max_order: args.store_max_order,
     };
     let rt = match tokio::runtime::Builder::new_multi_thread()
         .enable_all()

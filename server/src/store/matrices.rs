@@ -251,22 +251,3 @@ pub fn set_catalogue_entry(
     )?;
     Ok(())
 }
-
-/// Calls `f` with every stored matrix's record and bits, in id order (for `audit`).
-pub fn for_each(
-    c: &Connection,
-    mut f: impl FnMut(MatrixRecord, Vec<u8>),
-) -> Result<(), StoreError> {
-    let mut st = c.prepare(concat!(
-        "SELECT ",
-        columns!(),
-        ", bits FROM matrices ORDER BY id"
-    ))?;
-    let mut rows = st.query([])?;
-    while let Some(r) = rows.next()? {
-        let rec = record(r)?;
-        let bits: Vec<u8> = r.get(13)?;
-        f(rec, bits);
-    }
-    Ok(())
-}
