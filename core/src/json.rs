@@ -7,24 +7,26 @@
 //! Core reads no clock, so the time the check took is measured by the caller and passed in.
 
 use crate::matrix::Matrix;
-use crate::repair::{self, Completion, Repair};
+use crate::repair::{self, Axis, Completion, CompletionReport, Proof, SignRepair};
 use crate::route::{self, OrderInfo};
 use crate::verify::Report;
 use serde_json::{json, Value};
 
 /// What follows the exact check: whether the matrix as read is Hadamard (a matrix with erased
-/// entries is not, until they are known), the one wrong sign that explains a failure, and what
+/// entries is not, until they are known), the wrong signs that explain a failure, and what
 /// the erased entries can be.
 #[derive(Clone, Debug)]
 pub struct FollowUp {
     /// True when the check passed and nothing is erased.
     pub hadamard: bool,
-    /// The single wrong entry, looked for only when the matrix failed and nothing is erased.
-    pub repair: Option<Repair>,
+    /// The wrong signs, looked for only when the matrix failed and nothing is erased.
+    pub repair: Option<SignRepair>,
     /// The completions, looked for only when entries are erased.
-    pub completion: Option<Completion>,
+    pub completion: Option<CompletionReport>,
     /// How many entries are erased.
     pub erased: usize,
+    /// The erased entries, (row, col).
+    pub erasures: Vec<(usize, usize)>,
 }
 
 /// Runs the repair or the completion that `report` (which must be `verify(m)`'s) calls for.
@@ -35,13 +37,14 @@ pub fn follow_up(m: &Matrix, erasures: &[(usize, usize)], report: &Report) -> Fo
     let completion =
         erased.then(|| repair::complete(m, erasures, repair::CompletionLimits::default()));
     let repair = (!hadamard && !erased)
-        .then(|| repair::single_wrong_entry(m, report))
+        .then(|| repair::wrong_signs(m, report))
         .flatten();
     FollowUp {
         hadamard,
         repair,
         completion,
         erased: erasures.len(),
+        erasures: erasures.to_vec(),
     }
 }
 
@@ -62,31 +65,118 @@ pub fn verification(report: &Report, f: &FollowUp, format: &str, elapsed_ms: f64
         );
         o.insert(
             "completion".into(),
-            f.completion.as_ref().map_or(Value::Null, completion_json),
+            f.completion
+                .as_ref()
+                .map_or(Value::Null, |c| completion_json(c, &f.erasures)),
         );
     }
     v
 }
 
-fn repair_json(r: &Repair) -> Value {
-    json!({
-        "kind": "single_wrong_entry",
-        "row": r.row,
-        "col": r.col,
+/// How many entries the JSON lists at most (the counts are always given).
+const LIST_CAP: usize = 10_000;
+
+pub fn repair_json(r: &SignRepair) -> Value {
+    let n = r.corrected.order();
+    let m = r.corrected.matrix();
+    let entries: Vec<Value> = r
+        .entries
+        .iter()
+        .map(|&(i, j)| json!({"row": i, "col": j, "was": -m.get(i, j), "now": m.get(i, j)}))
+        .collect();
+    let mut v = json!({
+        "kind": if r.entries.len() == 1 { "single_wrong_entry" } else { "wrong_signs" },
+        "count": r.entries.len(),
+        "entries": entries,
         "index_base": 0,
+        "along": match r.axis { Axis::Rows => "rows", Axis::Columns => "columns" },
+        "suspects": r.suspects,
         "corrected_sha256": r.corrected_id,
-    })
+        "unique_within_distance": r.unique_within_distance,
+        "uniqueness": uniqueness_note(r, n),
+    });
+    if let ([(i, j)], Value::Object(o)) = (r.entries.as_slice(), &mut v) {
+        o.insert("row".into(), json!(i));
+        o.insert("col".into(), json!(j));
+    }
+    v
 }
 
-fn completion_json(c: &Completion) -> Value {
-    match c {
-        Completion::Unique { id, .. } => json!({"kind": "unique", "completed_sha256": id}),
-        Completion::None => json!({"kind": "none"}),
-        Completion::Several { count, complete } => {
-            json!({"kind": "several", "count": count, "count_is_exact": complete})
-        }
-        Completion::GaveUp { explored } => json!({"kind": "undecided", "explored_nodes": explored}),
+pub fn uniqueness_note(r: &SignRepair, n: usize) -> String {
+    let d = r.entries.len();
+    if r.unique_within_distance {
+        format!("two distinct Hadamard matrices of order {n} differ in at least {n} entries, and 2·{d} < {n}, so no other Hadamard matrix is within {d} changes of the input")
+    } else {
+        format!("not decided: 2·{d} ≥ {n}, so the bound (distinct Hadamard matrices differ in at least n entries) does not exclude another one within {d} changes")
     }
+}
+
+fn positions(list: &[(usize, usize)]) -> Value {
+    json!(list
+        .iter()
+        .take(LIST_CAP)
+        .map(|&(i, j)| [i, j])
+        .collect::<Vec<_>>())
+}
+
+pub fn completion_json(c: &CompletionReport, erasures: &[(usize, usize)]) -> Value {
+    let mut v = match &c.outcome {
+        Completion::Unique { id, matrix, proof } => {
+            let m = matrix.matrix();
+            let values: Vec<[i64; 3]> = erasures
+                .iter()
+                .take(LIST_CAP)
+                .map(|&(i, j)| [i as i64, j as i64, m.get(i, j) as i64])
+                .collect();
+            json!({
+                "kind": "unique",
+                "completed_sha256": id,
+                "proof": match proof { Proof::Linear => "linear", Proof::Search => "linear+search" },
+                "values": values,
+            })
+        }
+        Completion::None => json!({"kind": "none"}),
+        Completion::Several {
+            count,
+            complete,
+            examples,
+        } => {
+            let differ: Vec<(usize, usize)> = match examples.as_slice() {
+                [a, b, ..] => erasures
+                    .iter()
+                    .copied()
+                    .filter(|&(i, j)| a.matrix().get(i, j) != b.matrix().get(i, j))
+                    .collect(),
+                _ => Vec::new(),
+            };
+            json!({
+                "kind": "several",
+                "count": count,
+                "count_is_exact": complete,
+                "completions": examples.iter().map(|v| v.id()).collect::<Vec<_>>(),
+                "differ_at": positions(&differ),
+            })
+        }
+        Completion::Undecided {
+            explored,
+            remaining,
+            candidate,
+        } => json!({
+            "kind": "undecided",
+            "explored_nodes": explored,
+            "remaining_entries": remaining.len(),
+            "remaining": positions(remaining),
+            "candidate_sha256": candidate.as_ref().map(|v| v.id()),
+        }),
+    };
+    if let Value::Object(o) = &mut v {
+        o.insert("erased_entries".into(), json!(c.erased));
+        o.insert("determined_by_equations".into(), json!(c.determined));
+        o.insert("linear_rounds".into(), json!(c.rounds));
+        o.insert("linear_equations".into(), json!(c.equations));
+        o.insert("index_base".into(), json!(0));
+    }
+    v
 }
 
 /// The smallest known and the smallest constructible order ≥ k, as

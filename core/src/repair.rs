@@ -10,12 +10,33 @@
 //! [`single_wrong_entry`] looks for that pattern, flips the entry, and returns the corrected
 //! matrix only if the exact check passes on it.
 //!
-//! **Erased entries.** [`complete`] searches the ±1 values of the erased entries by
-//! backtracking. For each pair of rows it keeps the part S of the inner product already known
-//! and the number K of terms still unknown; a partial assignment survives only while every
-//! pair has |S| ≤ K and S ≡ K (mod 2). It counts completions up to a limit and reports a
-//! unique one, none, several, or that the limit was reached. Every completion it returns has
-//! passed the exact check.
+//! **Several wrong signs.** [`wrong_signs`] (in `repair/signs.rs`): suspect rows (or
+//! columns) are rebuilt from the orthogonal complement of the others, and the correction is
+//! proven the only one within its distance when it changes fewer than n/2 entries.
+//!
+//! **Erased entries.** [`complete`] first uses the linear structure. For rows i and j whose
+//! erased columns are disjoint, ⟨r_i, r_j⟩ = 0 is linear in the unknowns of both rows; the same
+//! holds for columns, since Hᵀ·H = nI too. (A fully known row is disjoint from every row, so
+//! each row with unknowns must also be orthogonal to all fully known rows: those are among the
+//! equations.) The system is solved exactly modulo 3 (`repair/gf3.rs`): an unknown the system
+//! fixes modulo 3 is fixed over the integers, because +1 and −1 differ modulo 3. The fixed
+//! entries are filled in, which makes more pairs linear, and this repeats until a round fixes
+//! nothing. This follows the observation that about n²/log n random erasures still determine a
+//! Hadamard matrix (J. Kline, "Geometric search for Hadamard matrices", Theoret. Comput. Sci.
+//! 778 (2019) 33–46), by elimination rather than by that paper's algorithm
+//! (references.md#r14-erasures-and-wrong-signs).
+//!
+//! What is left goes to a backtracking search. For each pair of rows it keeps the part S of the
+//! inner product already known and the number K of terms still unknown; a partial assignment
+//! survives only while every pair has |S| ≤ K and S ≡ K (mod 2). It counts completions up to a
+//! limit. `Unique` is reported only when proven (the equations fixed every entry, or the search
+//! was exhaustive), `Several` with two distinct completions, `Undecided` with the entries still
+//! unknown. Every completion returned has passed the exact check.
+
+mod gf3;
+mod signs;
+
+pub use signs::{wrong_signs, Axis, SignRepair};
 
 use crate::id::matrix_id;
 use crate::matrix::{tail_mask, Matrix};
@@ -98,12 +119,12 @@ pub fn single_wrong_entry(m: &Matrix, report: &Report) -> Option<Repair> {
     None
 }
 
-/// Bounds on the completion search.
+/// Bounds on the completion.
 #[derive(Clone, Copy, Debug)]
 pub struct CompletionLimits {
-    /// Refuse more erased entries than this.
+    /// Refuse more erased entries than this (the linear system takes about U²/2 bytes).
     pub max_erasures: usize,
-    /// Stop after visiting this many partial assignments.
+    /// Stop the search after visiting this many partial assignments.
     pub max_nodes: u64,
     /// Stop counting completions after this many.
     pub max_count: u64,
@@ -112,53 +133,248 @@ pub struct CompletionLimits {
 impl Default for CompletionLimits {
     fn default() -> Self {
         CompletionLimits {
-            max_erasures: 4096,
+            max_erasures: 12_000,
             max_nodes: 2_000_000,
             max_count: 1000,
         }
     }
 }
 
+/// How a unique completion was proven unique.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Proof {
+    /// The linear equations alone fix every erased entry.
+    Linear,
+    /// The linear equations fixed some entries and an exhaustive search found one way to fill
+    /// the rest.
+    Search,
+}
+
 /// What the erased entries can be.
 #[derive(Clone, Debug)]
 pub enum Completion {
-    /// Exactly one completion is Hadamard.
-    Unique { id: String, matrix: Verified },
-    /// No completion is Hadamard.
+    /// Exactly one completion is Hadamard (proven as `proof` says).
+    Unique {
+        id: String,
+        matrix: Verified,
+        proof: Proof,
+    },
+    /// No completion is Hadamard (proven).
     None,
     /// More than one; `complete` says whether `count` is the exact number (false: at least).
-    Several { count: u64, complete: bool },
-    /// The search limit was reached before the answer was known.
-    GaveUp { explored: u64 },
+    /// `examples` holds two distinct completions, both checked.
+    Several {
+        count: u64,
+        complete: bool,
+        examples: Vec<Verified>,
+    },
+    /// The search limit was reached before the answer was known. `remaining` are the entries
+    /// still unknown (the others were fixed by the linear equations); `candidate` is a
+    /// completion found, if any, not proven to be the only one.
+    Undecided {
+        explored: u64,
+        remaining: Vec<(usize, usize)>,
+        candidate: Option<Verified>,
+    },
 }
 
-/// Counts the Hadamard completions of `m` whose entries at `erasures` (row, col) are unknown.
-pub fn complete(m: &Matrix, erasures: &[(usize, usize)], limits: CompletionLimits) -> Completion {
+/// The answer of [`complete`] with what the linear phase did.
+#[derive(Clone, Debug)]
+pub struct CompletionReport {
+    pub outcome: Completion,
+    /// Erased entries (distinct, inside the matrix).
+    pub erased: usize,
+    /// How many of them the linear equations fixed.
+    pub determined: usize,
+    /// Rounds of the linear phase (each: build the equations, eliminate, fix).
+    pub rounds: usize,
+    /// Linear equations used, summed over the rounds.
+    pub equations: usize,
+}
+
+/// Finds the Hadamard completions of `m` whose entries at `erasures` (row, col) are unknown:
+/// first by the linear equations of orthogonality (see the module comment), then by the search
+/// for whatever they leave open.
+pub fn complete(
+    m: &Matrix,
+    erasures: &[(usize, usize)],
+    limits: CompletionLimits,
+) -> CompletionReport {
     let n = m.rows();
-    if !m.is_square() || !order_possible(n) {
-        return Completion::None;
-    }
-    if erasures.len() > limits.max_erasures {
-        return Completion::GaveUp { explored: 0 };
-    }
-    let mut unknown = Matrix::ones(n, n);
-    for &(i, j) in erasures {
-        if i < n && j < n {
-            unknown.set_negative(i, j, true);
-        }
-    }
     let mut vars: Vec<(usize, usize)> = erasures
         .iter()
         .copied()
-        .filter(|&(i, j)| i < n && j < n)
+        .filter(|&(i, j)| i < n && j < m.cols())
         .collect();
     vars.sort_unstable();
     vars.dedup();
+    let mut report = CompletionReport {
+        outcome: Completion::None,
+        erased: vars.len(),
+        determined: 0,
+        rounds: 0,
+        equations: 0,
+    };
+    if !m.is_square() || !order_possible(n) {
+        return report;
+    }
+    if vars.len() > limits.max_erasures {
+        report.outcome = Completion::Undecided {
+            explored: 0,
+            remaining: vars,
+            candidate: None,
+        };
+        return report;
+    }
+    let mut m = m.clone();
+    let mut unknown = Matrix::ones(n, n);
+    for &(i, j) in &vars {
+        unknown.set_negative(i, j, true);
+        m.set_negative(i, j, false);
+    }
+    if !linear_phase(&mut m, &mut unknown, &mut report) {
+        return report;
+    }
+    let vars: Vec<(usize, usize)> = vars
+        .into_iter()
+        .filter(|&(i, j)| unknown.is_negative(i, j))
+        .collect();
+    report.determined = report.erased - vars.len();
+    report.outcome = search(&m, unknown, &vars, limits);
+    report
+}
+
+/// Fixes the entries the linear equations force, round after round. Returns false (with
+/// `report.outcome` = `None`) when the equations have no ±1 solution.
+fn linear_phase(m: &mut Matrix, unknown: &mut Matrix, report: &mut CompletionReport) -> bool {
+    let n = m.rows();
+    loop {
+        let mut index = vec![usize::MAX; n * n];
+        let mut count = 0usize;
+        for i in 0..n {
+            for (k, &w) in unknown.row_words(i).iter().enumerate() {
+                let mut bits = w;
+                while bits != 0 {
+                    index[i * n + k * 64 + bits.trailing_zeros() as usize] = count;
+                    count += 1;
+                    bits &= bits - 1;
+                }
+            }
+        }
+        if count == 0 {
+            return true;
+        }
+        // Pairs of rows, then pairs of columns (index transposed), taken in turn.
+        let by_rows = linear_equations(m, unknown, |i, c| index[i * n + c]);
+        let (mt, ut) = (m.transpose(), unknown.transpose());
+        let by_cols = linear_equations(&mt, &ut, |c, i| index[i * n + c]);
+        let cap = 2 * count + 64;
+        let mut sys = gf3::System::new(count);
+        let (mut a, mut b) = (by_rows.into_iter(), by_cols.into_iter());
+        while sys.len() < cap {
+            let mut any = false;
+            for (terms, rhs) in a.next().into_iter().chain(b.next()) {
+                sys.push(&terms, rhs);
+                any = true;
+            }
+            if !any {
+                break;
+            }
+        }
+        report.rounds += 1;
+        report.equations += sys.len();
+        let values = match sys.solve() {
+            gf3::Solved::Contradiction => {
+                report.outcome = Completion::None;
+                return false;
+            }
+            gf3::Solved::Values(v) => v,
+        };
+        let mut fixed = 0usize;
+        for i in 0..n {
+            for c in 0..n {
+                let k = index[i * n + c];
+                if k == usize::MAX {
+                    continue;
+                }
+                if let Some(v) = values[k] {
+                    m.set(i, c, v);
+                    unknown.set_negative(i, c, false);
+                    fixed += 1;
+                }
+            }
+        }
+        if fixed == 0 {
+            return true;
+        }
+    }
+}
+
+/// The linear equations ⟨r_i, r_j⟩ = 0 of the row pairs whose unknown entries lie in disjoint
+/// columns: Σ_{c unknown in i} h_jc·x_ic + Σ_{c unknown in j} h_ic·x_jc = −(known part).
+/// A pair with a fully known row is one of these, so every row is tied to all fully known
+/// rows. `var(i, c)` numbers the unknown at (i, c).
+fn linear_equations(
+    m: &Matrix,
+    unknown: &Matrix,
+    var: impl Fn(usize, usize) -> usize,
+) -> Vec<(Vec<(usize, i8)>, i64)> {
+    let n = m.rows();
+    let has: Vec<bool> = (0..n)
+        .map(|i| unknown.row_words(i).iter().any(|&w| w != 0))
+        .collect();
+    let mut out = Vec::new();
+    for i in 0..n {
+        for j in i + 1..n {
+            if !has[i] && !has[j] {
+                continue;
+            }
+            let (ui, uj) = (unknown.row_words(i), unknown.row_words(j));
+            if ui.iter().zip(uj).any(|(a, b)| a & b != 0) {
+                continue;
+            }
+            let (mut open, mut diff) = (0i64, 0i64);
+            for ((a, b), (x, y)) in ui
+                .iter()
+                .zip(uj)
+                .zip(m.row_words(i).iter().zip(m.row_words(j)))
+            {
+                let any = a | b;
+                open += any.count_ones() as i64;
+                diff += ((x ^ y) & !any).count_ones() as i64;
+            }
+            let known = (n as i64 - open) - 2 * diff;
+            let mut terms = Vec::with_capacity(open as usize);
+            for (row, other, u) in [(i, j, ui), (j, i, uj)] {
+                for (k, &w) in u.iter().enumerate() {
+                    let mut bits = w;
+                    while bits != 0 {
+                        let c = k * 64 + bits.trailing_zeros() as usize;
+                        terms.push((var(row, c), m.get(other, c)));
+                        bits &= bits - 1;
+                    }
+                }
+            }
+            out.push((terms, -known));
+        }
+    }
+    out
+}
+
+/// The backtracking search over the entries still unknown.
+fn search(
+    m: &Matrix,
+    unknown: Matrix,
+    vars: &[(usize, usize)],
+    limits: CompletionLimits,
+) -> Completion {
+    let n = m.rows();
     if vars.is_empty() {
         return match certify(m.clone()) {
             Ok(v) => Completion::Unique {
                 id: v.id().to_string(),
                 matrix: v,
+                proof: Proof::Linear,
             },
             Err(_) => Completion::None,
         };
@@ -188,27 +404,34 @@ pub fn complete(m: &Matrix, erasures: &[(usize, usize)], limits: CompletionLimit
         rows: erased_rows,
         nodes: 0,
         found: 0,
-        first: None,
+        examples: Vec::new(),
         limits,
     };
     s.init();
     if !s.feasible_all() {
         return Completion::None;
     }
-    let finished = s.dfs(&vars, 0);
+    let finished = s.dfs(vars, 0);
+    let mut examples = std::mem::take(&mut s.examples);
     match (s.found, finished) {
         (0, true) => Completion::None,
-        (1, true) => match s.first.take() {
+        (1, true) => match examples.pop() {
             Some(v) => Completion::Unique {
                 id: matrix_id(v.matrix()),
                 matrix: v,
+                proof: Proof::Search,
             },
             None => Completion::None,
         },
-        (0, false) => Completion::GaveUp { explored: s.nodes },
+        (0 | 1, false) => Completion::Undecided {
+            explored: s.nodes,
+            remaining: vars.to_vec(),
+            candidate: examples.pop(),
+        },
         (k, done) => Completion::Several {
             count: k,
             complete: done,
+            examples,
         },
     }
 }
@@ -227,7 +450,8 @@ struct Search {
     rows: Vec<usize>,
     nodes: u64,
     found: u64,
-    first: Option<Verified>,
+    /// The first two completions found.
+    examples: Vec<Verified>,
     limits: CompletionLimits,
 }
 
@@ -306,8 +530,8 @@ impl Search {
         if at == vars.len() {
             if let Ok(v) = certify(self.m.clone()) {
                 self.found += 1;
-                if self.first.is_none() {
-                    self.first = Some(v);
+                if self.examples.len() < 2 {
+                    self.examples.push(v);
                 }
             }
             return self.found < self.limits.max_count;
@@ -332,6 +556,7 @@ impl Search {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::derive::rng::SplitMix64;
     use crate::verify::verify;
 
     fn sylvester(k: u32) -> Matrix {
@@ -373,7 +598,7 @@ mod tests {
         for &(i, j) in &erased {
             m.set_negative(i, j, false);
         }
-        match complete(&m, &erased, CompletionLimits::default()) {
+        match complete(&m, &erased, CompletionLimits::default()).outcome {
             Completion::Unique { matrix, .. } => assert_eq!(matrix.matrix(), &h),
             other => panic!("expected a unique completion, got {other:?}"),
         }
@@ -383,11 +608,19 @@ mod tests {
     fn a_fully_erased_row_has_two_completions() {
         let h = sylvester(3);
         let erased: Vec<(usize, usize)> = (0..8).map(|c| (6, c)).collect();
-        match complete(&h, &erased, CompletionLimits::default()) {
+        match complete(&h, &erased, CompletionLimits::default()).outcome {
             Completion::Several {
                 count: 2,
                 complete: true,
-            } => {}
+                examples,
+            } => {
+                assert_eq!(examples.len(), 2);
+                assert_ne!(examples[0].id(), examples[1].id());
+                let mut neg = h.clone();
+                neg.negate_row(6);
+                assert!(examples.iter().any(|v| v.matrix() == &h));
+                assert!(examples.iter().any(|v| v.matrix() == &neg));
+            }
             other => panic!("expected ±row, got {other:?}"),
         }
     }
@@ -408,9 +641,83 @@ mod tests {
         for &(i, j) in &erased {
             m.set_negative(i, j, false);
         }
-        match complete(&m, &erased, CompletionLimits::default()) {
+        match complete(&m, &erased, CompletionLimits::default()).outcome {
             Completion::Unique { matrix, .. } => assert_eq!(matrix.matrix(), &h),
             other => panic!("expected unique, got {other:?}"),
+        }
+    }
+
+    /// A scrambled Sylvester matrix: seeded row and column permutations and negations.
+    fn scrambled(k: u32, seed: u64) -> Matrix {
+        let h = sylvester(k);
+        let n = h.rows();
+        let mut rng = SplitMix64::new(seed);
+        let (mut p, mut q): (Vec<usize>, Vec<usize>) = ((0..n).collect(), (0..n).collect());
+        rng.shuffle(&mut p);
+        rng.shuffle(&mut q);
+        let (rs, cs): (Vec<bool>, Vec<bool>) = (
+            (0..n).map(|_| rng.next_u64() & 1 == 1).collect(),
+            (0..n).map(|_| rng.next_u64() & 1 == 1).collect(),
+        );
+        Matrix::from_fn(n, n, |i, j| h.is_negative(p[i], q[j]) ^ rs[i] ^ cs[j])
+    }
+
+    fn erase(h: &Matrix, count: usize, seed: u64) -> (Matrix, Vec<(usize, usize)>) {
+        let n = h.rows();
+        let mut cells: Vec<usize> = (0..n * n).collect();
+        SplitMix64::new(seed).shuffle(&mut cells);
+        let erased: Vec<(usize, usize)> = cells[..count].iter().map(|&k| (k / n, k % n)).collect();
+        let mut m = h.clone();
+        for &(i, j) in &erased {
+            m.set_negative(i, j, false);
+        }
+        (m, erased)
+    }
+
+    #[test]
+    fn linear_equations_complete_many_random_erasures_in_order_64() {
+        // ⌊64²/(2 ln 64)⌋ = 492 erased entries, the load the issue asks for.
+        let h = scrambled(6, 3);
+        let (m, erased) = erase(&h, 492, 4);
+        let rep = complete(&m, &erased, CompletionLimits::default());
+        assert_eq!(rep.erased, 492);
+        match rep.outcome {
+            Completion::Unique { matrix, proof, .. } => {
+                assert_eq!(matrix.matrix(), &h);
+                assert_eq!(proof, Proof::Linear);
+            }
+            other => panic!("expected unique, got {other:?}"),
+        }
+    }
+
+    #[test]
+    fn an_impossible_pattern_is_refused() {
+        // Erase part of a row whose known part already disagrees with every completion: flip
+        // a known entry of a row with erasures, so the linear equations have no ±1 solution.
+        let h = scrambled(5, 9);
+        let (mut m, erased) = erase(&h, 40, 10);
+        let known = (0..32)
+            .find(|&c| !erased.contains(&(0, c)))
+            .expect("a known entry");
+        m.flip(0, known);
+        assert!(matches!(
+            complete(&m, &erased, CompletionLimits::default()).outcome,
+            Completion::None
+        ));
+    }
+
+    #[test]
+    fn a_search_stopped_after_one_completion_is_undecided_not_several() {
+        // With a node budget too small to finish, one completion found is not "several".
+        let h = sylvester(3);
+        let erased: Vec<(usize, usize)> = (0..8).map(|c| (6, c)).collect();
+        let limits = CompletionLimits {
+            max_nodes: 9,
+            ..CompletionLimits::default()
+        };
+        match complete(&h, &erased, limits).outcome {
+            Completion::Undecided { remaining, .. } => assert_eq!(remaining.len(), 8),
+            other => panic!("expected undecided, got {other:?}"),
         }
     }
 }

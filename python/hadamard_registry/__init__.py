@@ -94,8 +94,8 @@ def verify(a: Union[Any, PathLike], *, max_pairs: int = 64) -> Dict[str, Any]:
     until its erased entries are known, and ``completion`` says whether orthogonality fixes
     them. Keys: ``hadamard`` (the verdict), ``order``, ``cols``, ``failures``,
     ``failing_pairs`` (0-based rows ``i < j`` and their inner product, at most ``max_pairs``),
-    ``failing_pairs_total``, ``properties``, ``sha256`` (the id), ``repair`` (the one wrong
-    sign that explains the failures, or ``None``), ``completion``, ``format``,
+    ``failing_pairs_total``, ``properties``, ``sha256`` (the id), ``repair`` (the wrong
+    signs that explain the failures, or ``None``), ``completion``, ``format``,
     ``elapsed_ms``, ``check`` and ``kernel``.
 
     Raises :class:`MatrixParseError` naming the place of the first bad entry.

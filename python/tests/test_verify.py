@@ -56,7 +56,9 @@ def test_one_wrong_sign_is_located_and_repaired():
     r = hr.verify(bad)
     # One flipped entry makes row 10 fail against every other row with inner product ±2.
     assert r["failing_pairs_total"] == 43 == len(numpy_failing_pairs(bad))
-    assert r["repair"] == {"kind": "single_wrong_entry", "row": 10, "col": 33, "index_base": 0, "corrected_sha256": id_}
+    rep = r["repair"]
+    assert (rep["kind"], rep["row"], rep["col"], rep["index_base"], rep["corrected_sha256"]) == ("single_wrong_entry", 10, 33, 0, id_)
+    assert rep["entries"] == [{"row": 10, "col": 33, "was": int(bad[10, 33]), "now": int(h[10, 33])}]
 
 
 def test_nan_entries_are_erased_and_completed():
@@ -66,7 +68,9 @@ def test_nan_entries_are_erased_and_completed():
     e[5, 1] = np.nan
     r = hr.verify(e)
     assert r["hadamard"] is False and r["erased_entries"] == 2
-    assert r["completion"] == {"kind": "unique", "completed_sha256": id_}
+    c = r["completion"]
+    assert (c["kind"], c["completed_sha256"]) == ("unique", id_)
+    assert sorted(map(tuple, c["values"])) == [(2, 7, int(h[2, 7])), (5, 1, int(h[5, 1]))]
 
 
 def test_properties_are_numpys():

@@ -465,6 +465,45 @@ fn refusals_400_413_422() {
         "erased entries are not stored"
     );
 
+    // Erased entries: 422, with the completion (Sylvester's matrix of order 16, 30 entries
+    // erased along a diagonal stripe; rows orthogonal to the others are fixed up to sign).
+    let h = sylvester_variant(4, 0);
+    let mut erased: Vec<u8> = h.clone().into_bytes();
+    for i in 0..16 {
+        for j in [i, (i + 5) % 16] {
+            if (i, j) != (0, 0) && (i, j) != (0, 5) {
+                erased[i * 17 + j] = b'?';
+            }
+        }
+    }
+    let r = s.post("/api/matrices", &erased);
+    assert_eq!(r.status, 422);
+    let b = r.json();
+    assert_eq!(b["erased_entries"], 30);
+    assert_eq!(b["completion"]["kind"], "unique", "{b}");
+    assert_eq!(b["completion"]["completed_sha256"], sha256_of(&h));
+    assert!(b["error"]
+        .as_str()
+        .is_some_and(|e| e.starts_with("incomplete")));
+    assert_eq!(
+        s.get(&format!("/api/matrices/{}", sha256_of(&h))).status,
+        404,
+        "not stored"
+    );
+
+    // Three wrong signs: 422, with the repair listing them.
+    let h = sylvester_variant(5, 0);
+    let mut bad = h.clone().into_bytes();
+    for (i, j) in [(2, 9), (17, 30), (25, 4)] {
+        let at = i * 33 + j;
+        bad[at] = if bad[at] == b'+' { b'-' } else { b'+' };
+    }
+    let b = s.post("/api/matrices", &bad).json();
+    assert_eq!(b["repair"]["kind"], "wrong_signs");
+    assert_eq!(b["repair"]["corrected_sha256"], sha256_of(&h));
+    assert_eq!(b["repair"]["count"], 3);
+    assert_eq!(b["repair"]["unique_within_distance"], true);
+
     // Too large: a declared length over the limit is refused before the body is read.
     let r = common::request(
         s.addr,

@@ -7,6 +7,7 @@ must agree on every one. The binary is $HADAMARD_BIN (tests/run.sh sets it), or
 target/release/hadamard.
 """
 
+import functools
 import hashlib
 import json
 import os
@@ -175,3 +176,54 @@ def test_order_6_is_not_hadamard_exit_1():
     h = np.where(np.random.default_rng(6).random((6, 6)) < 0.5, -1, 1)
     r = run("verify", "-", stdin=canonical(h).encode())
     assert r.returncode == 1
+
+
+KERNELS = ["best", "scalar-tiled", "popcnt-tiled", "avx512-vpopcntdq-tiled", "avx2-sliced", "avx512-sliced"]
+
+
+@functools.lru_cache(maxsize=1)
+def damaged_cases():
+    """scipy's Sylvester matrix of order 1024 with three entries flipped, whole and cut to 600
+    rows, each with its non-orthogonal pairs (i < j, row-major) from numpy's float64 Gram
+    matrix (exact for ±1 entries)."""
+    h = scipy.linalg.hadamard(1024).astype(int)
+    rng = np.random.default_rng(14)
+    for _ in range(3):
+        i, j = rng.integers(0, 1024, size=2)
+        h[i, j] = -h[i, j]
+    cases = []
+    for m in (h, h[:600]):
+        hf = m.astype(np.float64)
+        g = hf @ hf.T
+        a, b = np.nonzero(np.triu(g != 0, k=1))
+        cases.append((canonical(m), [(int(x), int(y), int(g[x, y])) for x, y in zip(a, b)]))
+    return cases
+
+
+@pytest.mark.parametrize("kernel", KERNELS)
+def test_every_kernel_finds_the_pairs_numpy_finds(tmp_path, kernel):
+    # Every kernel the CPU has must report numpy's count and the same first pairs; a kernel
+    # the CPU lacks must be refused as a usage error (exit 2), never run.
+    ran = []
+    for text, bad in damaged_cases():
+        path = tmp_path / "m.pm"
+        path.write_text(text)
+        r = run("verify", "--json", "--kernel", kernel, "--max-pairs", "100", str(path))
+        if r.returncode == 2:
+            assert b"not available on this CPU" in r.stderr, r.stderr
+            continue
+        assert r.returncode == 1, r.stderr
+        out = json.loads(r.stdout)
+        assert out["failing_pairs_total"] == len(bad)
+        assert [(p["i"], p["j"], p["dot"]) for p in out["failing_pairs"]] == bad[:100]
+        ran.append(out["kernel"])
+    print(f"kernel {kernel}: ran as {sorted(set(ran)) or 'absent on this CPU'}")
+    if kernel in ("best", "scalar-tiled"):
+        assert len(ran) == 2
+
+
+def test_an_unknown_kernel_is_a_usage_error(tmp_path):
+    path = tmp_path / "h.pm"
+    path.write_text(canonical(scipy.linalg.hadamard(4)))
+    r = run("verify", "--kernel", "fastest", str(path))
+    assert r.returncode == 2 and b"unknown kernel" in r.stderr

@@ -7,7 +7,8 @@
 //! of order 4096 costs a 512×512 image, not a 4096×4096 one, and zooming is a redraw.
 //!
 //! Colours are the registry's palette, shared with core's PNG writer: +1 warm off-white, −1 deep
-//! ink blue, and rows being pointed out tinted red.
+//! ink blue, rows being pointed out tinted red, entries pointed out red, and erased (unknown)
+//! entries amber.
 
 use hadamard_core::Matrix;
 use leptos::html::Canvas;
@@ -18,6 +19,8 @@ use wasm_bindgen::{Clamped, JsCast};
 const PLUS: [f64; 3] = [244.0, 239.0, 230.0];
 const MINUS: [f64; 3] = [29.0, 53.0, 87.0];
 const MARK: [f64; 3] = [230.0, 57.0, 70.0];
+/// Erased entries (`?`): neither +1 nor −1, so a colour off the +1…−1 scale.
+const UNKNOWN: [f64; 3] = [233.0, 170.0, 60.0];
 /// How much of the mark colour a marked row takes (as in core's PNG writer).
 const MARK_BLEND: f64 = 0.45;
 /// The canvas side in pixels that the drawing aims for.
@@ -68,7 +71,8 @@ fn draw(
     canvas: &web_sys::HtmlCanvasElement,
     m: &Matrix,
     marked: &[bool],
-    cell: Option<(usize, usize)>,
+    cells: &[(usize, usize)],
+    unknown: Option<&Matrix>,
     v: View,
 ) {
     let k = window_side(m, v.zoom);
@@ -100,10 +104,11 @@ fn draw(
             let i = v.row0 + r;
             let mark = marked.get(i).copied().unwrap_or(false);
             let px = [colour(0.0, mark), colour(1.0, mark)];
+            let q = colour_of(UNKNOWN);
             for c in 0..vis_c {
                 let j = v.col0 + c;
-                let rgba = if cell == Some((i, j)) {
-                    [230, 57, 70, 255]
+                let rgba = if unknown.is_some_and(|u| u.is_negative(i, j)) {
+                    q
                 } else {
                     px[m.is_negative(i, j) as usize]
                 };
@@ -117,8 +122,10 @@ fn draw(
         }
     } else {
         let mut counts = vec![0u32; w];
+        let mut erased = vec![0u32; w];
         for py in 0..h {
             counts.iter_mut().for_each(|c| *c = 0);
+            erased.iter_mut().for_each(|c| *c = 0);
             let r_lo = v.row0 + py * block;
             let r_hi = (r_lo + block).min(v.row0 + vis_r);
             let mut mark = false;
@@ -127,19 +134,43 @@ fn draw(
                 for c in 0..vis_c {
                     counts[c / block] += m.is_negative(i, v.col0 + c) as u32;
                 }
+                if let Some(u) = unknown {
+                    for c in 0..vis_c {
+                        erased[c / block] += u.is_negative(i, v.col0 + c) as u32;
+                    }
+                }
             }
             for (px, &cnt) in counts.iter().enumerate() {
                 let c_lo = px * block;
                 let c_hi = (c_lo + block).min(vis_c);
                 let area = ((r_hi - r_lo) * (c_hi - c_lo)).max(1) as f64;
                 let mut rgba = colour(f64::from(cnt) / area, mark);
-                if let Some((ci, cj)) = cell {
-                    if (r_lo..r_hi).contains(&ci) && (v.col0 + c_lo..v.col0 + c_hi).contains(&cj) {
-                        rgba = [230, 57, 70, 255];
-                    }
+                if erased[px] > 0 {
+                    let c = [f64::from(rgba[0]), f64::from(rgba[1]), f64::from(rgba[2])];
+                    // At least a third amber, so a single erased entry in a block shows.
+                    let t = (f64::from(erased[px]) / area).max(1.0 / 3.0);
+                    rgba = colour_of(mix(c, UNKNOWN, t));
                 }
                 let at = (py * w + px) * 4;
                 data[at..at + 4].copy_from_slice(&rgba);
+            }
+        }
+    }
+    // The entries pointed out, red, over everything else.
+    for &(i, j) in cells {
+        if !(v.row0..v.row0 + vis_r).contains(&i) || !(v.col0..v.col0 + vis_c).contains(&j) {
+            continue;
+        }
+        let (r, c) = (i - v.row0, j - v.col0);
+        let (ys, xs) = if block == 1 {
+            (r * scale..(r + 1) * scale, c * scale..(c + 1) * scale)
+        } else {
+            (r / block..r / block + 1, c / block..c / block + 1)
+        };
+        for y in ys {
+            for x in xs.clone() {
+                let at = (y * w + x) * 4;
+                data[at..at + 4].copy_from_slice(&[230, 57, 70, 255]);
             }
         }
     }
@@ -158,12 +189,23 @@ fn draw(
     }
 }
 
-/// A zoomable picture of `matrix`. `marked` rows (0-based) are tinted red; `cell` is filled red.
+fn colour_of(c: [f64; 3]) -> [u8; 4] {
+    [
+        c[0].round() as u8,
+        c[1].round() as u8,
+        c[2].round() as u8,
+        255,
+    ]
+}
+
+/// A zoomable picture of `matrix`. `marked` rows (0-based) are tinted red; `cells` are filled
+/// red; the entries set in `unknown` (erased, `?`) are drawn amber, as neither +1 nor −1.
 #[component]
 pub fn MatrixPicture(
     matrix: Arc<Matrix>,
     #[prop(optional)] marked: Vec<usize>,
-    #[prop(default = None)] cell: Option<(usize, usize)>,
+    #[prop(optional)] cells: Vec<(usize, usize)>,
+    #[prop(default = None)] unknown: Option<Arc<Matrix>>,
     /// What the picture shows, for screen readers.
     label: String,
 ) -> impl IntoView {
@@ -180,10 +222,12 @@ pub fn MatrixPicture(
         }
     }
     let m = matrix.clone();
+    let has_cells = !cells.is_empty();
+    let has_unknown = unknown.is_some();
     Effect::new(move |_| {
         let v = view_sig.get();
         if let Some(c) = canvas.get() {
-            draw(&c, &m, &mask, cell, v);
+            draw(&c, &m, &mask, &cells, unknown.as_deref(), v);
         }
     });
 
@@ -333,7 +377,8 @@ pub fn MatrixPicture(
                 <span class="caption" aria-live="polite">{caption}</span>
                 <span class="legend">
                     <i class="sw plus"></i>"+1 "<i class="sw minus"></i>"−1"
-                    {(!marked.is_empty() || cell.is_some()).then(|| view! { <i class="sw mark"></i>"rows pointed out" })}
+                    {(!marked.is_empty() || has_cells).then(|| view! { <i class="sw mark"></i>"rows pointed out" })}
+                    {has_unknown.then(|| view! { " "<i class="sw unknown"></i>"erased (?)" })}
                 </span>
             </figcaption>
         </figure>

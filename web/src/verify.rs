@@ -15,7 +15,7 @@ use crate::entry::EquivalenceResult;
 use crate::picture::MatrixPicture;
 use crate::pool;
 use hadamard_core::formats::{self, Format, ReadOptions};
-use hadamard_core::repair::{self, Completion};
+use hadamard_core::repair::{self, Completion, CompletionReport, Proof};
 use hadamard_core::verify::{Failure, Progressive, Report};
 use hadamard_core::Matrix;
 use leptos::prelude::*;
@@ -45,12 +45,12 @@ struct Source {
 /// A repair the check found, with the corrected matrix.
 #[derive(Clone)]
 enum Fix {
-    /// One wrong sign, 0-based.
-    Sign {
-        row: usize,
-        col: usize,
+    /// Wrong signs, 0-based; `unique`: no other Hadamard matrix is as near.
+    Signs {
+        entries: Vec<(usize, usize)>,
         id: String,
         corrected: Arc<Matrix>,
+        unique: bool,
     },
     /// The erased entries have exactly one Hadamard completion.
     Completed { id: String, corrected: Arc<Matrix> },
@@ -63,6 +63,8 @@ struct Outcome {
     hadamard: bool,
     format: Format,
     erasures: usize,
+    /// Bit set at the erased entries.
+    unknown: Option<Arc<Matrix>>,
     completion: Option<String>,
     fix: Option<Fix>,
     matrix: Arc<Matrix>,
@@ -116,13 +118,27 @@ fn marked_rows(r: &Report) -> Vec<usize> {
     rows
 }
 
-fn completion_words(c: &Completion) -> String {
-    match c {
-        Completion::Unique { .. } => "The erased entries (?) are fixed by orthogonality: exactly one way of filling them gives a Hadamard matrix.".into(),
+fn completion_words(c: &CompletionReport) -> String {
+    let fixed = format!(
+        "{} of the {} were fixed by the linear equations of orthogonality",
+        c.determined, c.erased
+    );
+    match &c.outcome {
+        Completion::Unique { proof, .. } => format!(
+            "Orthogonality fixes the erased entries (?): exactly one way of filling them gives a Hadamard matrix ({fixed}{}).",
+            if *proof == Proof::Search { ", the rest by an exhaustive search" } else { "" }
+        ),
         Completion::None => "No way of filling the erased entries (?) gives a Hadamard matrix.".into(),
-        Completion::Several { count, complete: true } => format!("The erased entries (?) can be filled in {count} ways that give a Hadamard matrix."),
-        Completion::Several { count, complete: false } => format!("The erased entries (?) can be filled in at least {count} ways that give a Hadamard matrix."),
-        Completion::GaveUp { .. } => "The erased entries (?) could not be settled within the search limit.".into(),
+        Completion::Several { count, complete, examples } => format!(
+            "The erased entries (?) can be filled in {}{count} ways that give a Hadamard matrix, for example ids {}.",
+            if *complete { "" } else { "at least " },
+            examples.iter().map(|v| v.id().to_string()).collect::<Vec<_>>().join(" and ")
+        ),
+        Completion::Undecided { remaining, candidate, .. } => format!(
+            "Not settled within the search limit: {fixed}, and {} are still unknown{}.",
+            remaining.len(),
+            candidate.as_ref().map(|v| format!("; one completion was found, not proven the only one: id {}", v.id())).unwrap_or_default()
+        ),
     }
 }
 
@@ -190,29 +206,41 @@ async fn check(
     let hadamard = report.hadamard && erasures == 0;
     let mut fix = None;
     let mut completion = None;
+    let unknown = (erasures > 0).then(|| {
+        let mut u = Matrix::ones(m.rows(), m.cols());
+        for &(i, j) in &parsed.erasures {
+            u.set_negative(i, j, true);
+        }
+        Arc::new(u)
+    });
     if erasures > 0 {
         phase.set(Phase::Checking(1.0));
         next_tick().await;
         let c = repair::complete(&m, &parsed.erasures, repair::CompletionLimits::default());
         completion = Some(completion_words(&c));
-        if let Completion::Unique { id, matrix } = c {
+        if let Completion::Unique { id, matrix, .. } = c.outcome {
             fix = Some(Fix::Completed {
                 id,
                 corrected: Arc::new(matrix.into_matrix()),
             });
         }
     } else if !hadamard {
-        if let Some(r) = repair::single_wrong_entry(&m, &report) {
-            fix = Some(Fix::Sign {
-                row: r.row,
-                col: r.col,
+        if let Some(r) = repair::wrong_signs(&m, &report) {
+            fix = Some(Fix::Signs {
+                entries: r.entries,
                 id: r.corrected_id,
                 corrected: Arc::new(r.corrected.into_matrix()),
+                unique: r.unique_within_distance,
             });
         }
     }
     let marked = match &fix {
-        Some(Fix::Sign { row, .. }) => vec![*row],
+        Some(Fix::Signs { entries, .. }) => {
+            let mut rows: Vec<usize> = entries.iter().map(|e| e.0).collect();
+            rows.dedup();
+            rows
+        }
+        _ if erasures > 0 => Vec::new(),
         _ => marked_rows(&report),
     };
     if !still_wanted() {
@@ -223,6 +251,7 @@ async fn check(
         hadamard,
         format: parsed.format,
         erasures,
+        unknown,
         completion,
         fix,
         matrix: Arc::new(m),
@@ -398,6 +427,7 @@ pub fn VerifyPanel(
 
     let verdict_attr = move || match phase.get() {
         Phase::Done(o) if o.hadamard => Some("hadamard"),
+        Phase::Done(o) if o.erasures > 0 => Some("incomplete"),
         Phase::Done(_) => Some("not-hadamard"),
         Phase::Malformed(_) => Some("error"),
         _ => None,
@@ -582,15 +612,19 @@ fn Verdict(
     } else {
         format!("{}×{}", r.order, r.cols)
     };
-    let headline = if o.hadamard {
+    let headline = if o.erasures > 0 {
+        format!("Incomplete: {} entries erased (?), {shape}.", o.erasures)
+    } else if o.hadamard {
         format!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {n}·I).")
     } else {
         format!("Not Hadamard: {shape}.")
     };
     let pairs_all = (n as u64) * (n as u64).saturating_sub(1) / 2;
+    // With erased entries the pairs were counted with ? as +1, which says nothing: not listed.
     let reasons = r
         .failures
         .iter()
+        .filter(|_| o.erasures == 0)
         .map(|f| match f {
             Failure::NotSquare => view! { <li>{format!("It is not square: {} rows, {} columns.", r.order, r.cols)}</li> }.into_any(),
             Failure::ImpossibleOrder => view! {
@@ -619,7 +653,8 @@ fn Verdict(
         view! { <li>{format!("It has {} erased entries (?), so it is not a matrix of ±1 values yet.", o.erasures)}</li> }
     });
     let fix = o.fix.clone().map(|f| match f {
-        Fix::Sign { row, col, id, corrected } => {
+        Fix::Signs { entries, id, corrected, unique } if entries.len() == 1 => {
+            let (row, col) = entries[0];
             let was = if o.matrix.is_negative(row, col) { "−1" } else { "+1" };
             let now = if was == "−1" { "+1" } else { "−1" };
             view! {
@@ -628,6 +663,33 @@ fn Verdict(
                         <strong>{format!("One wrong sign explains it: row {}, column {}", row + 1, col + 1)}</strong>
                         {format!(" (counted from 1). Changing that entry from {was} to {now} gives a Hadamard matrix, id ")}
                         <code class="id">{id}</code>"."
+                        {unique.then_some(" No other Hadamard matrix differs from the input in one entry only.")}
+                    </p>
+                    <button type="button" on:click=move |_| use_corrected(corrected.clone())>"Use the corrected matrix"</button>
+                </div>
+            }
+            .into_any()
+        }
+        Fix::Signs { entries, id, corrected, unique } => {
+            let d = entries.len();
+            let shown: Vec<String> = entries
+                .iter()
+                .take(PAIRS_SHOWN)
+                .map(|&(i, j)| format!("row {}, column {}", i + 1, j + 1))
+                .collect();
+            let more = d.saturating_sub(shown.len());
+            view! {
+                <div class="repair" id="repair">
+                    <p>
+                        <strong>{format!("{d} wrong signs explain it")}</strong>
+                        " (counted from 1): "{shown.join("; ")}
+                        {(more > 0).then(|| format!(" … and {more} more"))}
+                        ". Changing them gives a Hadamard matrix, id "<code class="id">{id}</code>". "
+                        {if unique {
+                            format!("No other Hadamard matrix is within {d} changes of the input (two distinct ones differ in at least {n} entries).")
+                        } else {
+                            format!("Whether another Hadamard matrix is within {d} changes is not decided.")
+                        }}
                     </p>
                     <button type="button" on:click=move |_| use_corrected(corrected.clone())>"Use the corrected matrix"</button>
                 </div>
@@ -658,11 +720,17 @@ fn Verdict(
         props.join(", ")
     };
     let label = format!("Picture of the matrix, {shape}: light squares are +1, dark squares −1.");
-    let cell = match &o.fix {
-        Some(Fix::Sign { row, col, .. }) => Some((*row, *col)),
-        _ => None,
+    let cells = match &o.fix {
+        Some(Fix::Signs { entries, .. }) => entries.clone(),
+        _ => Vec::new(),
+    };
+    let label = if o.erasures > 0 {
+        format!("{label} Erased entries (?) are amber.")
+    } else {
+        label
     };
     let small_enough = o.matrix.rows() > 0 && o.matrix.cols() > 0;
+    let placeholder = (o.erasures > 0).then_some(" (with every ? read as +1)");
     view! {
         <p class="headline">{headline}</p>
         {(!o.hadamard).then(|| view! { <ul class="reasons">{reasons}{erased}</ul> })}
@@ -671,14 +739,14 @@ fn Verdict(
         <dl class="facts">
             <dt>"Input"</dt><dd>{name}</dd>
             <dt>"Read as"</dt><dd>{o.format.name()}</dd>
-            <dt>"Id"</dt><dd><code class="id" id="local-id">{r.sha256.clone()}</code></dd>
-            <dt>"Properties"</dt><dd>{format!("{props} (excess {})", p.excess)}</dd>
+            <dt>"Id"</dt><dd><code class="id" id="local-id">{r.sha256.clone()}</code>{placeholder}</dd>
+            <dt>"Properties"</dt><dd>{format!("{props} (excess {})", p.excess)}{placeholder}</dd>
             <dt>"Check"</dt><dd>{format!("{}, in this browser: read in {:.0} ms, checked in {:.0} ms{}", r.check, o.read_ms, o.millis, match o.workers {
                 0 => String::new(),
                 1 => " by a Web Worker".to_string(),
                 k => format!(" by {k} Web Workers"),
             })}</dd>
         </dl>
-        {small_enough.then(|| view! { <MatrixPicture matrix=o.matrix.clone() marked=o.marked.clone() cell=cell label=label /> })}
+        {small_enough.then(|| view! { <MatrixPicture matrix=o.matrix.clone() marked=o.marked.clone() cells=cells unknown=o.unknown.clone() label=label /> })}
     }
 }

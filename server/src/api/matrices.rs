@@ -13,6 +13,8 @@ use axum::http::{header, HeaderMap, HeaderValue, StatusCode};
 use axum::response::IntoResponse;
 use axum::Json;
 use hadamard_core::formats::{self, Format, ReadOptions, WriteFormat};
+use hadamard_core::json::{completion_json, repair_json};
+use hadamard_core::repair::Completion;
 use http_body_util::{BodyExt, LengthLimitError, Limited};
 use serde_json::{json, Value};
 use std::collections::HashMap;
@@ -90,35 +92,77 @@ pub async fn upload(
     .await?;
     match outcome {
         Ok(UploadOutcome::Stored(ing)) => {
-            let status = if ing.created { StatusCode::CREATED } else { StatusCode::OK };
-            let location = HeaderValue::from_str(&format!("/m/{}", ing.record.id)).unwrap_or_else(|_| HeaderValue::from_static("/"));
+            let status = if ing.created {
+                StatusCode::CREATED
+            } else {
+                StatusCode::OK
+            };
+            let location = HeaderValue::from_str(&format!("/m/{}", ing.record.id))
+                .unwrap_or_else(|_| HeaderValue::from_static("/"));
             if ing.created {
                 tracing::info!(id = %ing.record.id, order = ing.record.order, "stored an uploaded matrix");
             }
-            Ok((status, [(header::LOCATION, location)], Json(upload_json(&ing))).into_response())
+            Ok((
+                status,
+                [(header::LOCATION, location)],
+                Json(upload_json(&ing)),
+            )
+                .into_response())
         }
-        Ok(UploadOutcome::NotHadamard(report)) => {
+        Ok(UploadOutcome::NotHadamard(report, fix)) => {
             let mut body = serde_json::to_value(&*report).unwrap_or(Value::Null);
             if let Value::Object(o) = &mut body {
                 o.insert("error".into(), json!(not_hadamard_message(&report)));
                 o.insert("failing_pairs_index_base".into(), json!(0));
+                o.insert(
+                    "repair".into(),
+                    fix.as_deref().map_or(Value::Null, repair_json),
+                );
             }
-            Err(ApiError { status: StatusCode::UNPROCESSABLE_ENTITY, body })
+            Err(ApiError {
+                status: StatusCode::UNPROCESSABLE_ENTITY,
+                body,
+            })
         }
-        Ok(UploadOutcome::HasErasures { order, erased }) => Err(ApiError::new(
-            StatusCode::UNPROCESSABLE_ENTITY,
-            format!("the matrix has {erased} erased entries (?); only complete ±1 matrices are stored (`hadamard verify` says whether they can be completed)"),
-        )
-        .with("order", order)
-        .with("erased_entries", erased)),
+        Ok(UploadOutcome::HasErasures {
+            order,
+            erasures,
+            completion,
+        }) => {
+            let erased = erasures.len();
+            let what = match &completion.outcome {
+                Completion::Unique { id, .. } => format!("orthogonality fixes them: the one completion has id {id}; upload the completed matrix to store it"),
+                Completion::None => "no way of filling them gives a Hadamard matrix".into(),
+                Completion::Several { .. } => "they admit several completions".into(),
+                Completion::Undecided { .. } => "whether they can be completed was not settled".into(),
+            };
+            Err(ApiError::new(
+                StatusCode::UNPROCESSABLE_ENTITY,
+                format!("incomplete: the matrix has {erased} erased entries (?), and only complete ±1 matrices are stored; {what}"),
+            )
+            .with("order", order)
+            .with("erased_entries", erased)
+            .with("completion", completion_json(&completion, &erasures)))
+        }
         Err(UploadError::Malformed(p)) if p.over_max_order => Err(ApiError::new(
             StatusCode::PAYLOAD_TOO_LARGE,
-            format!("{p} (this server's --max-order is {})", state.config.max_order),
+            format!(
+                "{p} (this server's --max-order is {})",
+                state.config.max_order
+            ),
         )
         .with("kind", "over_max_order")
         .with("limit", state.config.max_order)
-        .with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
-        Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string()).with("kind", "malformed").with("location", serde_json::to_value(p.location).unwrap_or(Value::Null))),
+        .with(
+            "location",
+            serde_json::to_value(p.location).unwrap_or(Value::Null),
+        )),
+        Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string())
+            .with("kind", "malformed")
+            .with(
+                "location",
+                serde_json::to_value(p.location).unwrap_or(Value::Null),
+            )),
         Err(UploadError::Store(e)) => Err(e.into()),
     }
 }

@@ -16,6 +16,7 @@ use crate::store::matrices::{self, MatrixRecord, Origin};
 use crate::store::{Store, StoreError};
 use crate::time::now_rfc3339;
 use hadamard_core::formats::{self, ParseError, ReadOptions};
+use hadamard_core::repair::{self, CompletionReport, SignRepair};
 use hadamard_core::verify::{self, Report, Verified};
 use hadamard_core::{route, Matrix};
 use std::collections::{HashMap, VecDeque};
@@ -51,6 +52,9 @@ pub struct Equivalence {
 
 /// How many matching ids an answer lists.
 pub const MATCH_LIST: u32 = 20;
+
+/// Most erased entries an upload's completion tries (about 5 s and 20 MB at order 256).
+pub const UPLOAD_MAX_ERASURES: usize = 6000;
 
 /// The blocking part of the catalogue: the store and a cache of verified matrices.
 pub struct Catalogue {
@@ -147,13 +151,24 @@ impl Catalogue {
     pub fn upload(&self, bytes: &[u8], opts: &ReadOptions) -> Result<UploadOutcome, UploadError> {
         let parsed = formats::read(bytes, opts).map_err(UploadError::Malformed)?;
         if !parsed.erasures.is_empty() {
+            // Nothing incomplete is stored, but the answer says whether it can be completed.
+            let limits = repair::CompletionLimits {
+                max_erasures: UPLOAD_MAX_ERASURES,
+                ..repair::CompletionLimits::default()
+            };
+            let completion = repair::complete(&parsed.matrix, &parsed.erasures, limits);
             return Ok(UploadOutcome::HasErasures {
                 order: parsed.matrix.rows(),
-                erased: parsed.erasures.len(),
+                erasures: parsed.erasures,
+                completion: Box::new(completion),
             });
         }
-        match verify::certify(parsed.matrix) {
-            Err(report) => Ok(UploadOutcome::NotHadamard(report)),
+        let matrix = parsed.matrix;
+        match verify::certify(matrix.clone()) {
+            Err(report) => {
+                let fix = repair::wrong_signs(&matrix, &report).map(Box::new);
+                Ok(UploadOutcome::NotHadamard(report, fix))
+            }
             Ok(v) => {
                 let ingested = self
                     .ingest(
@@ -273,8 +288,14 @@ pub fn certify_stored(id: &str, n: usize, blob: &[u8]) -> Result<Verified, Strin
 /// The answer to an upload that could be read.
 pub enum UploadOutcome {
     Stored(Box<Ingested>),
-    NotHadamard(Box<Report>),
-    HasErasures { order: usize, erased: usize },
+    /// Not Hadamard, with the wrong signs that explain it when there are.
+    NotHadamard(Box<Report>, Option<Box<SignRepair>>),
+    /// Erased entries, with what they can be.
+    HasErasures {
+        order: usize,
+        erasures: Vec<(usize, usize)>,
+        completion: Box<CompletionReport>,
+    },
 }
 
 /// An upload that could not be handled.

@@ -4,9 +4,10 @@
 //! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
-use super::input::{read_input, InputArgs};
+use super::input::{read_input, InputArgs, InputError};
+use super::progress::Spinner;
 use hadamard_core::json;
-use hadamard_core::repair::{Completion, Repair};
+use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
 use std::process::ExitCode;
 use std::time::Instant;
@@ -19,6 +20,10 @@ pub struct VerifyArgs {
     /// How many failing row pairs to list (the total is always counted).
     #[arg(long, default_value_t = verify::DEFAULT_PAIR_CAP)]
     max_pairs: usize,
+    /// The kernel of the check (for measuring them; the verdict never depends on it): best,
+    /// scalar-tiled, popcnt-tiled, avx512-vpopcntdq-tiled, avx2-sliced, avx512-sliced.
+    #[arg(long, value_name = "NAME", default_value = "best")]
+    kernel: String,
     #[command(flatten)]
     input: InputArgs,
     /// The same as --input-format: force the input format (pm, int (csv), bits, json, npy).
@@ -30,15 +35,40 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
     if let Some(f) = args.format.take() {
         args.input.input_format = Some(f);
     }
+    let kernel = match verify::Kernel::from_name(&args.kernel) {
+        Some(k) if k.is_available() => k,
+        Some(k) => {
+            return InputError::Usage(format!("the {k} kernel is not available on this CPU"))
+                .report(args.json)
+        }
+        None => {
+            let names: Vec<&str> = verify::Kernel::ALL.iter().map(|k| k.name()).collect();
+            return InputError::Usage(format!(
+                "unknown kernel `{}`: use best or one of {}",
+                args.kernel,
+                names.join(", ")
+            ))
+            .report(args.json);
+        }
+    };
     let parsed = match read_input(&args.input) {
         Ok(p) => p,
         Err(e) => return e.report(args.json),
     };
     let start = Instant::now();
-    let report = verify::verify_with_cap(&parsed.matrix, args.max_pairs);
+    let report = verify::verify_with(&parsed.matrix, args.max_pairs, kernel);
     let elapsed = start.elapsed();
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
+    let spin = (!parsed.erasures.is_empty()).then(|| {
+        Spinner::start(&format!(
+            "completing {} erased entries",
+            parsed.erasures.len()
+        ))
+    });
     let follow = json::follow_up(&parsed.matrix, &parsed.erasures, &report);
+    if let Some(s) = spin {
+        s.finish();
+    }
     let hadamard = follow.hadamard;
 
     if args.json {
@@ -71,15 +101,18 @@ fn print_human(
     hadamard: bool,
     format: &str,
     secs: f64,
-    fix: Option<&Repair>,
-    completion: Option<&Completion>,
+    fix: Option<&SignRepair>,
+    completion: Option<&CompletionReport>,
 ) {
     let shape = if r.order == r.cols {
         format!("order {}", r.order)
     } else {
         format!("{}×{}", r.order, r.cols)
     };
-    if hadamard {
+    let erased = completion.map_or(0, |c| c.erased);
+    if erased > 0 {
+        println!("incomplete: {erased} entries erased (?), {shape}.");
+    } else if hadamard {
         println!(
             "Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).",
             r.order
@@ -106,32 +139,78 @@ fn print_human(
             }
         }
         if let Some(f) = fix {
-            println!(
-                "  one wrong sign explains it: row {}, column {}. Flipped, it is Hadamard with id {}.",
-                f.row + 1,
-                f.col + 1,
-                f.corrected_id
-            );
+            let d = f.entries.len();
+            if d == 1 {
+                let (i, j) = f.entries[0];
+                println!(
+                    "  one wrong sign explains it: row {}, column {}. Flipped, it is Hadamard with id {}.",
+                    i + 1,
+                    j + 1,
+                    f.corrected_id
+                );
+            } else {
+                println!(
+                    "  {d} wrong signs explain it (found along the {}). Corrected, it is Hadamard with id {}:",
+                    if f.axis == Axis::Rows { "rows" } else { "columns" },
+                    f.corrected_id
+                );
+                for &(i, j) in f.entries.iter().take(20) {
+                    println!("    row {}, column {}", i + 1, j + 1);
+                }
+                if d > 20 {
+                    println!("    … and {} more (--json lists them all)", d - 20);
+                }
+            }
+            if f.unique_within_distance {
+                println!("  no other Hadamard matrix is within {d} changes (distinct ones differ in at least n entries)");
+            } else {
+                println!("  whether another Hadamard matrix is within {d} changes is not decided");
+            }
         }
     }
     if let Some(c) = completion {
-        match c {
-            Completion::Unique { id, .. } => println!(
-                "  the erased entries (?) are fixed by orthogonality: one completion, id {id}"
-            ),
+        let fixed = format!(
+            "{} of the {} were fixed by the linear equations of orthogonality",
+            c.determined, c.erased
+        );
+        match &c.outcome {
+            Completion::Unique { id, proof, .. } => {
+                println!("  one completion, id {id}: {fixed}");
+                if *proof == Proof::Search {
+                    println!("  and an exhaustive search found exactly one way to fill the rest");
+                }
+            }
             Completion::None => {
                 println!("  no way of filling the erased entries (?) gives a Hadamard matrix")
             }
             Completion::Several {
                 count,
-                complete: true,
-            } => println!("  the erased entries (?) admit {count} completions"),
-            Completion::Several {
-                count,
-                complete: false,
-            } => println!("  the erased entries (?) admit at least {count} completions"),
-            Completion::GaveUp { .. } => {
-                println!("  the erased entries (?) could not be settled within the search limit")
+                complete,
+                examples,
+            } => {
+                println!(
+                    "  the erased entries (?) admit {}{count} completions; two of them:",
+                    if *complete { "" } else { "at least " }
+                );
+                for v in examples {
+                    println!("    {}", v.id());
+                }
+            }
+            Completion::Undecided {
+                remaining,
+                candidate,
+                ..
+            } => {
+                println!(
+                    "  undecided within the search limit: {fixed}; {} are still unknown",
+                    remaining.len()
+                );
+                if let Some(v) = candidate {
+                    println!(
+                        "  one completion found (not proven the only one): {}",
+                        v.id()
+                    );
+                }
             }
         }
     }
