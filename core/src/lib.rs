@@ -21,6 +21,7 @@ pub mod formats;
 pub mod id;
 pub mod json;
 pub mod matrix;
+pub mod query;
 pub mod repair;
 pub mod route;
 #[cfg(not(target_arch = "wasm32"))]

@@ -107,6 +107,11 @@ pub fn router(state: Arc<AppState>) -> Router {
         .route("/api/orders/{n}", get(api::orders::show))
         .route("/api/orders/{n}/matrix", get(api::orders::catalogue_matrix))
         .route("/api/orders/{n}/matrices", get(api::orders::list))
+        .route(
+            "/api/orders/{n}/matrix/download",
+            get(api::pages::order_download),
+        )
+        .route("/api/id-prefix/{p}", get(api::pages::id_prefix))
         .route("/api/coverage", get(api::coverage::show))
         .route("/api/dimensions/{d}", get(api::advice::dimension))
         .route("/api/smallest-known", get(api::advice::smallest_known))

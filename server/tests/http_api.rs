@@ -192,6 +192,25 @@ fn upload_lookup_download_and_restart() {
             "{f}"
         );
     }
+    // Each format downloads under its own name, so the three .npy files never collide.
+    let names: std::collections::BTreeSet<String> =
+        ["pm", "csv", "npy", "npy-f64", "npy-f64-scaled"]
+            .iter()
+            .map(|f| {
+                s.get(&format!("/api/matrices/{id}/download?format={f}"))
+                    .header("content-disposition")
+                    .unwrap_or_default()
+                    .to_string()
+            })
+            .collect();
+    assert_eq!(names.len(), 5, "{names:?}");
+    // The id-prefix look-up finds it from its first ten digits.
+    let found = s.get(&format!("/api/id-prefix/{}", &id[..10])).json();
+    assert!(found["ids"]
+        .as_array()
+        .is_some_and(|a| a.iter().any(|x| x == id.as_str())));
+    assert_eq!(s.get("/api/id-prefix/12345").status, 400);
+    assert_eq!(s.get("/api/id-prefix/zzzzzzzzzz").status, 400);
     let bits = s.get(&format!("/api/matrices/{id}/download?format=bits&minus=0"));
     assert_eq!(bits.header("x-bits-minus"), Some("0"));
     assert_eq!(
@@ -271,6 +290,35 @@ fn upload_lookup_download_and_restart() {
         .header("content-type")
         .is_some_and(|c| c.starts_with("application/javascript")));
     assert!(s.get("/pkg/boot.js").text().contains("/pkg/web_bg.wasm"));
+    // The app's files carry a content-hash tag; naming it gives a 304 with no body.
+    for f in [
+        "/pkg/boot.js",
+        "/pkg/web.js",
+        "/pkg/web_bg.wasm",
+        "/pkg/check_bg.wasm",
+    ] {
+        let plain = s.get(f);
+        let tag = plain.header("etag").expect("an etag").to_string();
+        let again = s.get_with(f, &[("If-None-Match", &tag)]);
+        assert_eq!((again.status, again.body.len()), (304, 0), "{f}");
+        // Compressed when gzip is accepted and it helps; it decodes to the same bytes.
+        let gz = s.get_with(f, &[("Accept-Encoding", "gzip, br")]);
+        if gz.header("content-encoding") == Some("gzip") {
+            use std::io::Read;
+            let mut out = Vec::new();
+            flate2::read::GzDecoder::new(&gz.body[..])
+                .read_to_end(&mut out)
+                .expect("gzip");
+            assert_eq!(out, plain.body, "{f}");
+            assert_ne!(gz.header("etag"), Some(tag.as_str()), "{f}: its own tag");
+        } else {
+            assert_eq!(gz.body, plain.body, "{f}");
+        }
+    }
+    assert!(s
+        .get("/")
+        .text()
+        .contains("<meta name=\"hadamard-max-order\" content=\"8192\">"));
 
     // Restart: everything is still there, byte for byte.
     assert_eq!(s.stop(), Some(0));
@@ -284,6 +332,13 @@ fn upload_lookup_download_and_restart() {
     );
     assert_eq!(s.post("/api/matrices", text.as_bytes()).status, 200);
     assert_eq!(s.get("/api/orders/8/matrices").json()["total"], 2);
+    // "The matrix of order 8" redirects to its download (building it first).
+    let r = s.get("/api/orders/8/matrix/download?format=csv");
+    assert_eq!(r.status, 303);
+    assert!(r
+        .header("location")
+        .is_some_and(|l| l.starts_with("/api/matrices/") && l.ends_with("/download?format=csv")));
+    assert_eq!(s.get("/api/orders/9/matrix/download").status, 404);
     drop(s);
 
     // `hadamard audit` re-verifies every stored matrix.
@@ -299,7 +354,8 @@ fn upload_lookup_download_and_restart() {
         String::from_utf8_lossy(&out.stdout)
     );
     let a: Value = serde_json::from_slice(&out.stdout).expect("audit --json");
-    assert_eq!(a["checked"], 2);
+    // The two uploads and the catalogue matrix of order 8 that the redirect built.
+    assert_eq!(a["checked"], 3);
     assert_eq!(a["failed"], 0);
     assert_eq!(a["integrity_check"][0], "ok");
 

@@ -64,12 +64,15 @@ const browser = await launchBrowser();
 let passed = 0, failed = 0;
 const state = {};
 
-async function withPage(fn, slug, { context, viewport } = {}) {
+async function withPage(fn, slug, { context, viewport, allowNotFound } = {}) {
   const ctx = context || await browser.newContext({ acceptDownloads: true, viewport: viewport || { width: 1200, height: 900 } });
   const page = await ctx.newPage();
   const problems = [];
   page.on('pageerror', (e) => problems.push(`page error: ${e.message}`));
-  page.on('console', (m) => { if (m.type() === 'error') problems.push(`console error: ${m.text()}`); });
+  page.on('console', (m) => {
+    // A test of a missing page expects the browser to log the 404 it was given.
+    if (m.type() === 'error' && !(allowNotFound && m.text().includes('status of 404'))) problems.push(`console error: ${m.text()}`);
+  });
   try {
     await fn(page);
     // Let any late error surface before judging.
@@ -346,7 +349,16 @@ try {
     await page.fill('#matrix-text', text);
     await page.click('#verify-text');
     eq(await verdict(page), 'hadamard', 'data-verdict');
+    // Publishing asks first; cancelling sends nothing.
     await page.click('#publish');
+    await page.waitForSelector('#publish-confirm-box');
+    assert((await page.textContent('#publish-confirm-box')).includes('permanent'), 'the confirmation names permanence');
+    await page.click('#publish-cancel');
+    assert(!(await page.$('#publish-confirm-box')), 'cancel closes the question');
+    assert(!(await page.$('#publish-ok')), 'nothing published on cancel');
+    eq((await fetch(`${server.url}/api/matrices/${state.publishedId}`)).status, 404, 'not stored after cancel');
+    await page.click('#publish');
+    await page.click('#publish-confirm');
     const ok = await page.waitForSelector('#publish-ok', { timeout: 30_000 });
     eq(await ok.getAttribute('data-id'), state.publishedId, 'published id');
     eq(await page.getAttribute('#permalink', 'href'), `/m/${state.publishedId}`, 'permanent link');
@@ -355,6 +367,7 @@ try {
     await page.click('#verify-text');
     await page.waitForSelector('#verdict[data-verdict="hadamard"]');
     await page.click('#publish');
+    await page.click('#publish-confirm');
     const again = await page.waitForSelector('#publish-ok');
     assert((await again.textContent()).startsWith('Already in the catalogue'), await again.textContent());
   });
@@ -381,9 +394,14 @@ try {
     assert(state.publishedId, 'needs the publish test');
     await page.goto(`${server.url}/m/${state.publishedId}`);
     await page.waitForSelector('#derived a[data-derived="brr"]', { timeout: 30_000 });
-    for (const k of ['screening', 'code', 'symmetric-design', 'sequency', 'ordering', 'brr', 'equivalence']) {
+    for (const k of ['screening', 'code', 'symmetric-design', 'sequency', 'ordering', 'brr']) {
       assert(await page.$(`#derived a[data-derived="${k}"]`), `derived link ${k}`);
     }
+    assert(await page.$('#derived button[data-derived="equivalence"]'), 'the equivalence tool');
+    // Dyadic order needs a power-of-two order (Sylvester's matrices): greyed out for 12, with the reason.
+    await page.waitForSelector('#derived [data-unavailable]');
+    const greyed = await page.$$eval('#derived li', (lis) => lis.filter((li) => li.querySelector('[data-unavailable]')).map((li) => li.textContent));
+    assert(greyed.some((t) => t.includes('dyadic') && t.includes('powers of two')), `greyed: ${greyed.join(' | ')}`);
     await page.fill('#derived-seed', '42');
     const [dl] = await Promise.all([page.waitForEvent('download'), page.click('#derived a[data-derived="screening"]')]);
     const csv = readFileSync(await dl.path(), 'utf8').split('\n');
@@ -421,6 +439,339 @@ try {
     await page.goBack();
     await page.waitForSelector('#lookup-input');
     await page.screenshot({ path: join(shots, 'home.png'), fullPage: true });
+  });
+
+  // ---- Journeys of issue 16: each user's task answered on the page, the file checked. ----
+
+  /** Clicks a download link; resolves to { path, name } of the saved file. */
+  async function download(page, selector) {
+    const [dl] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), page.click(selector)]);
+    const dir = mkdtempSync(join(work, 'dl-'));
+    const path = join(dir, dl.suggestedFilename());
+    await dl.saveAs(path);
+    return { path, name: dl.suggestedFilename(), dir };
+  }
+
+  /** A ±1 CSV with a header: the columns whose header matches `pick`, as arrays of numbers. */
+  function csvColumns(text, pick) {
+    const lines = text.trim().split('\n').filter((l) => !l.startsWith('#'));
+    const head = lines[0].split(',');
+    const idx = head.map((h, i) => [h, i]).filter(([h]) => pick(h)).map(([, i]) => i);
+    const rows = lines.slice(1).map((l) => l.split(','));
+    return { names: idx.map((i) => head[i]), rows, cols: idx.map((i) => rows.map((r) => Number(r[i]))) };
+  }
+
+  /** Balanced ±1 columns, pairwise orthogonal: the defining property of a Plackett–Burman
+   *  design (Plackett and Burman, Biometrika 33, 1946) and of balanced repeated replication
+   *  (McCarthy, 1966, "full orthogonal balance"). */
+  function assertOrthogonalBalanced(cols, what) {
+    for (const c of cols) {
+      assert(c.every((v) => v === 1 || v === -1), `${what}: entries are ±1`);
+      eq(c.reduce((a, b) => a + b, 0), 0, `${what}: a column is balanced`);
+    }
+    for (let i = 0; i < cols.length; i++) {
+      for (let j = i + 1; j < cols.length; j++) {
+        eq(cols[i].reduce((a, v, r) => a + v * cols[j][r], 0), 0, `${what}: columns ${i} and ${j} orthogonal`);
+      }
+    }
+  }
+
+  const python = (script, cwd) => {
+    const r = spawnSync('python3', ['-c', script], { cwd, encoding: 'utf8', timeout: 120_000 });
+    assert(r.status === 0, `python failed: ${r.stderr.slice(-600)}`);
+    return r.stdout;
+  };
+
+  async function ask(page, text) {
+    await page.fill('#lookup-input', text);
+    await page.press('#lookup-input', 'Enter');
+  }
+
+  await test('statistician: 11 is impossible as an order, the page offers 12 and the 11-factor design', async (page) => {
+    await page.goto(server.url + '/');
+    await ask(page, '11');
+    await page.waitForURL('**/orders/11');
+    eq(await (await page.waitForSelector('#order-status[data-status]')).getAttribute('data-status'), 'impossible', '11');
+    eq(await page.getAttribute('#next-order', 'href'), '/orders/12', 'the next multiple of 4');
+    await page.click('#impossible-tasks a[data-task="factors"]');
+    await page.waitForURL('**/?factors=11');
+    assert(await page.isChecked('#kind-factors'), 'the box now reads bare numbers as factors');
+    await page.waitForSelector('a[data-task="screening"]', { timeout: 60_000 });
+    eq(await page.getAttribute('#factors-answer', 'data-order'), '12', 'runs for 11 factors');
+    const f = await download(page, 'a[data-task="screening"]');
+    assert(f.name.includes('screening-11-factors') && f.name.endsWith('.csv'), `file name ${f.name}`);
+    const { names, cols } = csvColumns(readFileSync(f.path, 'utf8'), (h) => /^[A-Z]$/.test(h));
+    eq(names.join(''), 'ABCDEFGHIJK', 'factor columns');
+    eq(cols[0].length, 12, 'runs');
+    assertOrthogonalBalanced(cols, '11-factor design');
+  });
+
+  await test('statistician: "19 factors" gives a 20-run design to download', async (page) => {
+    await page.goto(server.url + '/');
+    await page.fill('#lookup-input', '19 factors');
+    assert((await page.textContent('#lookup-understood')).includes('19 factors'), 'says what it understood');
+    await page.press('#lookup-input', 'Enter');
+    await page.waitForURL('**/?factors=19');
+    await page.waitForSelector('a[data-task="screening"]', { timeout: 60_000 });
+    const f = await download(page, 'a[data-task="screening"]');
+    const { names, cols } = csvColumns(readFileSync(f.path, 'utf8'), (h) => /^[A-Z]$/.test(h));
+    eq(names.length, 19, 'factors');
+    eq(cols[0].length, 20, 'runs (the next multiple of 4 above 19)');
+    assertOrthogonalBalanced(cols, '19-factor design');
+    const fold = await download(page, 'a[data-task="screening-foldover"]');
+    assert(fold.name !== f.name, `distinct names: ${fold.name}`);
+    await page.screenshot({ path: join(shots, 'factors-19.png'), fullPage: true });
+  });
+
+  await test('statistician: "40 strata" hands over 44 replicates, and the next number stays strata', async (page) => {
+    await page.goto(server.url + '/');
+    await ask(page, '40 strata');
+    await page.waitForURL('**/?strata=40');
+    await page.waitForSelector('a[data-task="brr"]', { timeout: 60_000 });
+    const f = await download(page, 'a[data-task="brr"]');
+    const { names, cols } = csvColumns(readFileSync(f.path, 'utf8'), (h) => h.startsWith('stratum_'));
+    eq(names.length, 40, 'strata');
+    eq(cols[0].length, 44, 'replicates: the smallest order above 40 (44 = 4·11)');
+    assertOrthogonalBalanced(cols, 'replicate signs');
+    assert(await page.isChecked('#kind-strata'), 'the choice did not snap back');
+    await ask(page, '41');
+    await page.waitForURL('**/?strata=41');
+  });
+
+  // 3584 = 128·28 (docs/references.md#r11-dimensions-users-ask-for); 11008 = 64·172.
+  for (const [d, a, m] of [[3584, 7, 28], [11008, 6, 172]]) {
+    await test(`ML engineer: dimension ${d} = 2^${a}·${m}, the factor downloaded and the NumPy snippet run`, async (page) => {
+      await page.goto(server.url + '/');
+      await ask(page, `dimension ${d}`);
+      await page.waitForURL(`**/?dimension=${d}`);
+      const use = await page.waitForSelector('#use-factoring', { timeout: 60_000 });
+      eq(await use.getAttribute('data-m'), String(m), 'the Hadamard factor');
+      eq(await use.getAttribute('data-a'), String(a), 'the power of two');
+      if (d > 8192) {
+        const limit = await page.textContent('#dimension-limit');
+        assert(limit.includes('8192'), `says the server's limit: ${limit}`);
+      }
+      const snippet = await page.waitForSelector('#snippet-numpy', { timeout: 60_000 });
+      const f = await download(page, 'a[data-factor="dense"]');
+      eq(f.name, await snippet.getAttribute('data-file'), 'the snippet loads the downloaded file by its name');
+      const out = python(await snippet.textContent(), f.dir);
+      assert(out.includes(`rotation of dimension ${d} checked`), out);
+      // The factor itself, independently: H·Hᵀ = mI (the definition).
+      python(`import numpy as np; H = np.load(${JSON.stringify(f.name)}).astype(int); assert H.shape == (${m}, ${m}); assert (H @ H.T == ${m} * np.eye(${m}, dtype=int)).all()`, f.dir);
+      assert((await page.textContent('#snippet-torch')).includes('torch.einsum'), 'a PyTorch snippet');
+      if (d === 3584) await page.screenshot({ path: join(shots, 'dimension-3584.png'), fullPage: true });
+    });
+  }
+
+  await test('order 11008 is honest about the server limit of 8192', async (page) => {
+    await page.goto(server.url + '/orders/11008');
+    const st = await page.waitForSelector('#order-status[data-status]', { timeout: 30_000 });
+    eq(await st.getAttribute('data-over-limit'), 'true', 'over the limit');
+    const words = await st.textContent();
+    assert(!words.includes('11008 now') && !words.includes('buildable here'), `must not claim to build it here: ${words}`);
+    assert((await page.textContent('#order-limit')).includes('hadamard build 11008'), 'gives the recipe command');
+    eq(await page.locator('.route summary .tag.yes').count(), 0, 'no route says "buildable here"');
+    eq(await page.getAttribute('#order-limit a', 'href'), '/?dimension=11008', 'links the factors');
+  });
+
+  for (const n of [92, 172]) {
+    await test(`coder: order ${n}, CSV and .npy from the matrix page, checked with numpy`, async (page) => {
+      await page.goto(`${server.url}/orders/${n}`);
+      await page.waitForSelector('.stored a.id', { timeout: 60_000 });
+      await page.click('.stored a.id');
+      await page.waitForURL('**/m/*');
+      await page.waitForFunction((n) => document.querySelector('h1')?.textContent.includes(`order ${n}`), n);
+      const csv = await download(page, 'a[data-format="csv"]');
+      const npy = await download(page, 'a[data-format="npy"]');
+      const f64 = await download(page, 'a[data-format="npy-f64-scaled"]');
+      const names = new Set([csv.name, npy.name, f64.name]);
+      eq(names.size, 3, `distinct file names ${[...names]}`);
+      python(`import numpy as np
+A = np.loadtxt(${JSON.stringify(csv.path)}, delimiter=",", dtype=int)
+B = np.load(${JSON.stringify(npy.path)}).astype(int)
+S = np.load(${JSON.stringify(f64.path)})
+assert A.shape == (${n}, ${n}) and (A == B).all()
+assert (A @ A.T == ${n} * np.eye(${n}, dtype=int)).all()
+assert np.allclose(S @ S.T, np.eye(${n})) and np.allclose(S * np.sqrt(${n}), A)`, work);
+      if (n === 92) state.scaled92 = f64.path;
+    });
+  }
+
+  await test("the site's own scaled .npy verifies on the verify page", async (page) => {
+    assert(state.scaled92, 'needs the coder test');
+    await page.goto(server.url + '/verify');
+    await page.setInputFiles('#matrix-file', state.scaled92);
+    eq(await verdict(page), 'hadamard', 'data-verdict');
+    eq(await page.textContent('#local-id'), cliJson(state.scaled92).sha256, 'the same id as the CLI');
+  });
+
+  await test('combinatorialist: erasures completed, publish confirmed, equivalence decided', async (page) => {
+    // Order 12's catalogue matrix must exist to compare against (the look-up of 12 built it).
+    await (await fetch(`${server.url}/api/orders/12/matrix`)).json();
+    // h12 with its rows reversed and three entries erased.
+    const r = validText.trim().split('\n').reverse();
+    const text = r.map((row, i) => (i < 3 ? row.slice(0, 4 + i) + '?' + row.slice(5 + i) : row)).join('\n') + '\n';
+    const full = r.join('\n') + '\n';
+    await page.goto(server.url + '/verify');
+    await page.fill('#matrix-text', text);
+    await page.click('#verify-text');
+    eq(await verdict(page), 'incomplete', 'with erasures');
+    const repair = await page.textContent('#repair');
+    assert(repair.includes(sha256(Buffer.from(full))), `the completion is the original: ${repair}`);
+    await page.click('#repair button');
+    eq(await page.waitForSelector('#verdict[data-verdict="hadamard"]').then((e) => e.getAttribute('data-verdict')), 'hadamard', 'completed');
+    await page.click('#publish');
+    await page.click('#publish-confirm');
+    await page.waitForSelector('#publish-ok', { timeout: 30_000 });
+    // Order 12 has one equivalence class (docs/references.md#r9-equivalence-classes), so each
+    // candidate the server names must be proved equivalent.
+    await page.waitForSelector('#equivalence-checks [data-verdict]', { timeout: 60_000 });
+    const verdicts = await page.$$eval('#equivalence-checks [data-verdict]', (els) => els.map((e) => e.getAttribute('data-verdict')));
+    assert(verdicts.length > 0 && verdicts.every((v) => v === 'equivalent'), `verdicts ${verdicts}`);
+    await page.screenshot({ path: join(shots, 'published-equivalence.png'), fullPage: true });
+  });
+
+  await test('existence questions: the box reads expressions and refuses what it cannot read', async (page) => {
+    await page.goto(server.url + '/');
+    for (const [typed, words] of [['3.5', 'not a whole number'], ['-4', 'negative'], ['12x16', 'not square'], ['banana', 'could not read']]) {
+      await ask(page, typed);
+      const p = await page.waitForSelector('#lookup-problem');
+      assert((await p.textContent()).includes(words), `${typed}: ${await p.textContent()}`);
+    }
+    eq(page.url(), server.url + '/', 'nothing opened');
+    await page.fill('#lookup-input', '2^12');
+    assert((await page.textContent('#lookup-understood')).includes('2^12 = 4096'), 'says 2^12 = 4096');
+    await page.press('#lookup-input', 'Enter');
+    await page.waitForURL('**/orders/4096');
+    await page.waitForSelector('#order-status[data-status="constructible"]');
+    await ask(page, '12x12');
+    await page.waitForURL('**/orders/12');
+    await page.goto(server.url + '/');
+    await page.check('#kind-dimension');
+    await ask(page, '1e6');
+    await page.waitForURL('**/?dimension=1000000');
+    await ask(page, '668');
+    await page.waitForURL('**/?dimension=668');
+    await ask(page, 'order 668');
+    await page.waitForURL('**/orders/668');
+    eq(await (await page.waitForSelector('#order-status[data-status]')).getAttribute('data-status'), 'open', '668 is open');
+    // The short id an order page shows opens the matrix.
+    await page.goto(server.url + '/orders/12');
+    const short = (await (await page.waitForSelector('.stored a.id', { timeout: 30_000 })).textContent()).trim();
+    await ask(page, short);
+    await page.waitForURL('**/m/*');
+    assert(page.url().includes('/m/' + short.replace('…', '')), `${page.url()} from ${short}`);
+  });
+
+  await test('matrix page: order in the heading, "Cite this", equivalence as a page', async (page) => {
+    const a = (await (await fetch(`${server.url}/api/orders/12/matrix`)).json()).id;
+    assert(state.publishedId, 'needs the publish test');
+    await page.goto(`${server.url}/m/${a}`);
+    await page.waitForSelector('#cite-text');
+    eq((await page.textContent('h1')).trim(), 'A Hadamard matrix of order 12', 'heading');
+    const cite = await page.textContent('#cite-text');
+    assert(cite.includes(a) && cite.includes('order 12') && cite.includes(`/m/${a}`) && /\d{4}-\d\d-\d\d/.test(cite), cite);
+    await page.fill('#equivalence-other', state.publishedId);
+    await page.click('button[data-derived="equivalence"]');
+    eq(await (await page.waitForSelector('.equivalence [data-verdict]', { timeout: 60_000 })).getAttribute('data-verdict'), 'equivalent', 'order 12 has one class (references.md#r9-equivalence-classes)');
+    eq(page.url(), `${server.url}/m/${a}`, 'stayed on the page');
+  });
+
+  await test('an unknown id gets a not-found page with no downloads', async (page) => {
+    const missing = '0'.repeat(64);
+    const resp = await page.goto(`${server.url}/m/${missing}`);
+    eq(resp.status(), 404, 'the shell answers 404');
+    await page.waitForSelector('#not-found');
+    eq(await page.locator('a[data-format]').count(), 0, 'no downloads for an unknown id');
+  }, { allowNotFound: true });
+
+  await test('phone: labels beside their radios, 24 px coverage squares, screenshots', async (page) => {
+    await page.goto(server.url + '/');
+    await page.waitForSelector('.kinds label.choice');
+    const boxes = await page.$$eval('.kinds label.choice', (ls) => ls.map((l) => {
+      const i = l.querySelector('input').getBoundingClientRect();
+      const t = l.querySelector('span').getBoundingClientRect();
+      return { i: [i.left, i.top, i.right, i.bottom], t: [t.left, t.top, t.right, t.bottom], text: l.textContent };
+    }));
+    eq(boxes.length, 4, 'four choices');
+    for (const { i, t, text } of boxes) {
+      // The text starts just right of its own circle, and the circle is within the text's first line.
+      assert(t[0] >= i[2] && t[0] - i[2] < 16, `${text}: label ${t[0] - i[2]}px from its radio`);
+      assert(i[1] >= t[1] - 4 && i[1] < t[1] + 24, `${text}: radio at ${i[1]}, label at ${t[1]}`);
+    }
+    await page.screenshot({ path: join(shots, 'phone-home-radios.png'), fullPage: true });
+    await page.goto(server.url + '/coverage');
+    await page.waitForSelector('.map a.cell');
+    const size = await page.$eval('.map a.cell', (c) => c.getBoundingClientRect().width);
+    assert(size >= 24, `coverage squares are ${size}px`);
+    assert((await page.textContent('#smallest-open')).includes('668'), 'smallest open order in words');
+    await page.screenshot({ path: join(shots, 'phone-coverage.png') });
+    for (const path of ['/?dimension=3584', '/?factors=19', '/orders/11008']) {
+      await page.goto(server.url + path);
+      await page.waitForTimeout(800);
+      const over = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+      assert(over <= 1, `${path} is ${over}px too wide`);
+      await page.screenshot({ path: join(shots, `phone-${path.replace(/[^a-z0-9]+/gi, '-')}.png`), fullPage: true });
+    }
+  }, { viewport: { width: 375, height: 760 } });
+
+  await test('keyboard: the coverage grid is one tab stop, arrows move, Enter opens', async (page) => {
+    await page.goto(server.url + '/coverage');
+    await page.waitForSelector('.map a.cell');
+    eq(await page.locator('.map a.cell[tabindex="0"]').count(), 1, 'one tab stop');
+    eq(await page.locator('.map a.cell[tabindex="-1"]').count(), 499, 'the rest reached by arrows');
+    await page.focus('.map a.cell[tabindex="0"]');
+    await page.keyboard.press('ArrowDown');
+    await page.keyboard.press('ArrowRight');
+    eq(await page.evaluate(() => document.activeElement.getAttribute('data-order')), '108', '4 + 100 + 4');
+    await page.keyboard.press('Enter');
+    await page.waitForURL('**/orders/108');
+    await page.goto(server.url + '/coverage');
+    const csv = await download(page, 'a[data-coverage="csv"]');
+    const lines = readFileSync(csv.path, 'utf8').trim().split('\n');
+    eq(lines[0], 'order,status', 'CSV header');
+    assert(lines.includes('668,open'), 'CSV lists 668 as open');
+    // The hidden file input shows its keyboard focus on its label, "Choose a file…".
+    await page.goto(server.url + '/verify');
+    await page.waitForSelector('#matrix-file', { state: 'attached' });
+    await page.click('main h1');
+    for (let i = 0; i < 40 && await page.evaluate(() => document.activeElement?.id) !== 'matrix-file'; i++) await page.keyboard.press('Tab');
+    eq(await page.evaluate(() => document.activeElement?.id), 'matrix-file', 'the file input is a tab stop');
+    eq(await page.$eval('label[for="matrix-file"]', (l) => getComputedStyle(l).outlineStyle), 'solid', 'its label shows the focus ring');
+  });
+
+  await test('cold visit: gzip and validators; a reload transfers only the page shell', async (page) => {
+    const cdp = await page.context().newCDPSession(page);
+    await cdp.send('Network.enable');
+    await cdp.send('Network.clearBrowserCache');
+    const seen = new Map();
+    cdp.on('Network.responseReceived', (e) => seen.set(e.requestId, {
+      url: e.response.url, status: e.response.status, cached: e.response.fromDiskCache || e.response.fromPrefetchCache,
+      enc: e.response.headers['content-encoding'] || e.response.headers['Content-Encoding'],
+    }));
+    const per = new Map();
+    let bytes = 0;
+    cdp.on('Network.loadingFinished', (e) => { bytes += e.encodedDataLength; per.set(e.requestId, e.encodedDataLength); });
+    await page.goto(server.url + '/');
+    await page.waitForSelector('#lookup-input');
+    await page.waitForTimeout(300);
+    const cold = bytes;
+    const coldList = [...seen.entries()].map(([id, r]) => `${r.url.replace(server.url, '')} ${per.get(id)}`);
+    console.log(`     cold: ${coldList.join(', ')}`);
+    const wasm = [...seen.values()].find((r) => r.url.endsWith('/pkg/web_bg.wasm'));
+    eq(wasm && wasm.enc, 'gzip', 'the app arrives compressed');
+    bytes = 0;
+    seen.clear();
+    await page.reload();
+    await page.waitForSelector('#lookup-input');
+    await page.waitForTimeout(300);
+    const warm = bytes;
+    // A revalidated fetch() shows as 200 to the page (the cache answers it), so judge by bytes:
+    // each of the app's files must come back as headers only (a 304).
+    const pkg = [...seen.entries()].filter(([, r]) => r.url.includes('/pkg/')).map(([id, r]) => [r.url.replace(server.url, ''), per.get(id)]);
+    assert(pkg.length >= 3 && pkg.every(([, b]) => b < 1000), `the app's files on reload: ${JSON.stringify(pkg)}`);
+    console.log(`     cold visit ${cold} bytes transferred, reload ${warm} bytes`);
+    assert(warm < cold / 20, `reload ${warm} of cold ${cold}`);
   });
 } finally {
   await browser.close().catch(() => {});

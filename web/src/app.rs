@@ -25,6 +25,10 @@ pub fn start() {
             let _ = head.append_child(&style);
         }
     }
+    // The shell's "loading" placeholder gives way to the app.
+    if let Some(p) = doc.get_element_by_id("boot-loading") {
+        p.remove();
+    }
     leptos::mount::mount_to_body(App);
 }
 
@@ -101,6 +105,8 @@ fn screen_of(location: &str) -> Screen {
                 lookup::Query::Dimension(d)
             } else if let Some(k) = query_param(search, "strata").and_then(|v| v.parse().ok()) {
                 lookup::Query::Strata(k)
+            } else if let Some(k) = query_param(search, "factors").and_then(|v| v.parse().ok()) {
+                lookup::Query::Factors(k)
             } else {
                 lookup::Query::None
             };
@@ -118,6 +124,7 @@ fn title_of(s: &Screen) -> String {
     let t = match s {
         Screen::Home(lookup::Query::Dimension(d)) => format!("Dimension {d}"),
         Screen::Home(lookup::Query::Strata(k)) => format!("{k} strata"),
+        Screen::Home(lookup::Query::Factors(k)) => format!("{k} factors"),
         Screen::Home(_) => "Look up an order".into(),
         Screen::Order(n) => format!("Order {n}"),
         Screen::Coverage => "Coverage".into(),

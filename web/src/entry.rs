@@ -2,7 +2,10 @@
 //!
 //! The metadata comes from `/api/matrices/{id}`. The picture is drawn from the entry's
 //! canonical `pm` download, read by core here; the page also hashes those rows and says whether
-//! they match the id, so the link is checked in the reader's own browser.
+//! they match the id, so the link is checked in the reader's own browser (on request above
+//! order 1024). An unknown id gets a not-found page with no downloads; derived objects that
+//! cannot exist for the matrix are greyed out with the reason; equivalence is answered on the
+//! page; and a "Cite this" block gives the id, link, order, how it was made and the date.
 
 use crate::api;
 use crate::lookup::{fetch, node_view};
@@ -16,8 +19,10 @@ use serde_json::Value;
 use std::sync::Arc;
 use wasm_bindgen_futures::JsFuture;
 
-/// Orders above this are not downloaded for the picture (the server's PNG is shown instead).
-const PICTURE_MAX_ORDER: u64 = 4096;
+/// Up to this order the page downloads the canonical text (about 1 MB at most) to draw the
+/// picture and check the id; above it the server's PNG is shown and the check is on request,
+/// so a visit does not download 12.8 MB unasked (order 3584).
+const PICTURE_AUTO_ORDER: u64 = 1024;
 
 /// Every download, with its conventions in words.
 const DOWNLOADS: [(&str, &str, &str); 8] = [
@@ -101,43 +106,172 @@ fn provenance_view(p: &Value, catalogue: bool, order: u64) -> AnyView {
     }
 }
 
+/// Words for a derived object that cannot exist for this matrix, or `None` when it can.
+fn unavailable(q: &str, order: u64, sequency: &Option<Result<Value, String>>) -> Option<String> {
+    let kind = q.split('?').next().unwrap_or(q);
+    if order > 2048 && matches!(kind, "screening" | "code" | "symmetric-design") {
+        return Some(format!("Served up to order 2048; this matrix has order {order}. The command line makes it: hadamard derive {kind}."));
+    }
+    if kind == "symmetric-design" && order < 8 {
+        return Some("Needs order 8 or more (a 2-(n−1, n/2−1, n/4−1) design with at least one block per pair).".into());
+    }
+    if !q.contains("order=sequency") && !q.contains("order=dyadic") {
+        return None;
+    }
+    let distinct = match sequency {
+        Some(Ok(v)) => api::b(v, "distinct"),
+        _ => None,
+    };
+    if q.contains("order=dyadic") && !order.is_power_of_two() {
+        return Some(format!("Defined only for Sylvester's matrices, whose orders are powers of two; {order} is not one."));
+    }
+    match distinct {
+        Some(false) if q.contains("order=dyadic") => Some("Defined only for Sylvester's matrix up to row order and signs; this matrix's rows do not have distinct sequencies, so it is not one.".into()),
+        Some(false) => Some("Not defined for this matrix: some of its rows have the same number of sign changes (see the sequencies).".into()),
+        _ => None,
+    }
+}
+
+/// The answer of `/api/equivalence`, as sentences.
+#[component]
+pub fn EquivalenceResult(a: String, b: String) -> impl IntoView {
+    let reply = fetch(format!("/api/equivalence?a={a}&b={b}"));
+    let short = format!("{}…", &b[..b.len().min(12)]);
+    let link = format!("/m/{b}");
+    view! {
+        <div class="equivalence" aria-live="polite">
+            {move || {
+                let (short, link) = (short.clone(), link.clone());
+                match reply.get() {
+                    None => view! { <p class="waiting">{format!("Comparing with {short}…")}</p> }.into_any(),
+                    Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
+                    Some(Ok(r)) if !r.ok() => view! { <p class="bad" data-verdict="error">{r.error()}</p> }.into_any(),
+                    Some(Ok(r)) => {
+                        let v = r.body;
+                        let verdict = api::s(&v, "verdict").unwrap_or("").to_string();
+                        let nodes = api::u(&v, "nodes").unwrap_or(0);
+                        let words = match verdict.as_str() {
+                            "equivalent" => "Equivalent: a certificate (a permutation and negation of rows and of columns) maps one onto the other, and was checked entry by entry.".to_string(),
+                            "inequivalent" => {
+                                let name = v.get("invariant").and_then(|i| api::s(i, "name")).unwrap_or("an invariant").replace('_', " ");
+                                format!("Not equivalent: their {name} differs, and equivalent matrices share it.")
+                            }
+                            _ => format!("Undecided: the search stopped after {nodes} nodes without a certificate, and the invariants compared agree."),
+                        };
+                        view! {
+                            <p class=if verdict == "equivalent" { "good" } else { "" } data-verdict=verdict.clone()>
+                                "With "<a class="id" href=link>{short}</a>": "{words}
+                            </p>
+                        }.into_any()
+                    }
+                }
+            }}
+        </div>
+    }
+}
+
+/// How the matrix was made, in a few words, for the citation.
+fn made_by(prov: &Value) -> String {
+    match api::s(prov, "kind") {
+        Some("constructed") => {
+            let method = prov
+                .get("recipe")
+                .and_then(|r| r.get("tree"))
+                .and_then(|t| api::s(t, "method"))
+                .map(crate::words::method_name)
+                .unwrap_or_else(|| "a construction".into());
+            format!("built by {method} and checked exactly by the Hadamard Registry")
+        }
+        Some("uploaded") => "uploaded, and checked exactly by the Hadamard Registry".into(),
+        _ => "checked exactly by the Hadamard Registry".into(),
+    }
+}
+
+fn date_of(prov: &Value) -> String {
+    api::s(prov, "constructed_at")
+        .or_else(|| api::s(prov, "uploaded_at"))
+        .map(|t| t.get(..10).unwrap_or(t).to_string())
+        .unwrap_or_default()
+}
+
 #[component]
 pub fn Entry(id: String) -> impl IntoView {
     let meta = fetch(format!("/api/matrices/{id}"));
+    let heading = move || match meta.get() {
+        Some(Ok(r)) if r.ok() => format!(
+            "A Hadamard matrix of order {}",
+            api::u(&r.body, "order").unwrap_or(0)
+        ),
+        Some(Ok(r)) if r.status == 404 => "No such matrix".to_string(),
+        _ => "A Hadamard matrix".to_string(),
+    };
+    view! {
+        <h1 tabindex="-1" id="entry-title">{heading}</h1>
+        {move || match meta.get() {
+            None => view! { <p class="waiting">"Loading…"</p> }.into_any(),
+            Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
+            Some(Ok(r)) if r.status == 404 => view! {
+                <section class="card" id="not-found">
+                    <p class="bad">"No matrix with this id is in the catalogue."</p>
+                    <p><code class="id">{id.clone()}</code></p>
+                    <p>"Ids are SHA-256 hashes of the canonical text, so a mistyped or shortened link matches nothing. Type its first digits into "
+                    <a href="/">"the look-up box"</a>" to find it, or "<a href="/verify">"verify and publish a matrix"</a>" to create one."</p>
+                </section>
+            }.into_any(),
+            Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
+            Some(Ok(r)) => view! { <EntryBody id=id.clone() body=r.body /> }.into_any(),
+        }}
+    }
+}
+
+#[component]
+fn EntryBody(id: String, body: Value) -> impl IntoView {
+    let b = body;
+    let order = api::u(&b, "order").unwrap_or(0);
     let matrix = RwSignal::new(None::<Result<Arc<Matrix>, String>>);
     let copied = RwSignal::new(None::<String>);
     let permalink = absolute(&format!("/m/{id}"));
 
-    // The picture: fetch the canonical text once the order is known to be small enough.
-    let fetch_started = StoredValue::new(false);
-    let id_pic = id.clone();
-    Effect::new(move |_| {
-        let Some(Ok(r)) = meta.get() else { return };
-        if !r.ok() || fetch_started.get_value() {
-            return;
+    // The picture and the id check: the canonical text, fetched at once when it is small, and
+    // on request when it is large (it is n² + n bytes).
+    let fetch_pm = {
+        let id = id.clone();
+        move || {
+            let url = format!("/api/matrices/{id}/download?format=pm");
+            matrix.set(Some(Err("…".into())));
+            spawn_local(async move {
+                let got = match api::get_bytes(&url).await {
+                    Ok((200, bytes)) => {
+                        let opts = ReadOptions {
+                            format: Some(Format::Pm),
+                            ..ReadOptions::default()
+                        };
+                        formats::read(&bytes, &opts)
+                            .map(|p| Arc::new(p.matrix))
+                            .map_err(|e| format!("the download could not be read: {e}"))
+                    }
+                    Ok((status, _)) => Err(format!("the download answered {status}")),
+                    Err(e) => Err(e),
+                };
+                matrix.set(Some(got));
+            });
         }
-        fetch_started.set_value(true);
-        if api::u(&r.body, "order").unwrap_or(0) > PICTURE_MAX_ORDER {
-            return;
-        }
-        let url = format!("/api/matrices/{id_pic}/download?format=pm");
+    };
+    let auto = order <= PICTURE_AUTO_ORDER;
+    if auto {
+        fetch_pm();
+    }
+    let sequency = RwSignal::new(None::<Result<Value, String>>);
+    if order <= 2048 {
+        let url = format!("/api/matrices/{id}/derive/sequency");
         spawn_local(async move {
-            let got = match api::get_bytes(&url).await {
-                Ok((200, bytes)) => {
-                    let opts = ReadOptions {
-                        format: Some(Format::Pm),
-                        ..ReadOptions::default()
-                    };
-                    formats::read(&bytes, &opts)
-                        .map(|p| Arc::new(p.matrix))
-                        .map_err(|e| format!("the download could not be read: {e}"))
-                }
-                Ok((status, _)) => Err(format!("the download answered {status}")),
+            sequency.set(Some(match api::get(&url).await {
+                Ok(r) if r.ok() => Ok(r.body),
+                Ok(r) => Err(r.error()),
                 Err(e) => Err(e),
-            };
-            matrix.set(Some(got));
+            }));
         });
-    });
+    }
 
     let link_for_copy = permalink.clone();
     let copy = move |_| {
@@ -153,10 +287,6 @@ pub fn Entry(id: String) -> impl IntoView {
         });
     };
 
-    let id_view = id.clone();
-    let id_check = id.clone();
-    let id_dl = id.clone();
-    let id_derived = id.clone();
     // A seed for the screening links, taken from the id so the links are stable; editable.
     let seed = RwSignal::new(
         u32::from_str_radix(id.get(..8).unwrap_or("1"), 16)
@@ -165,8 +295,51 @@ pub fn Entry(id: String) -> impl IntoView {
     );
     let strata = RwSignal::new(String::from("10"));
     let other = RwSignal::new(String::new());
+    let compare = RwSignal::new(None::<String>);
+
+    let props = b.get("properties").cloned().unwrap_or(Value::Null);
+    let prop_items: Vec<(String, String)> = ["normalized", "symmetric", "skew", "regular"]
+        .into_iter()
+        .map(|k| {
+            (
+                k.to_string(),
+                match api::b(&props, k) {
+                    Some(true) => "yes".into(),
+                    Some(false) => "no".into(),
+                    None => "—".into(),
+                },
+            )
+        })
+        .chain(
+            props
+                .get("excess")
+                .map(|e| ("excess".to_string(), api::plain(e))),
+        )
+        .collect();
+    let prov = b.get("provenance").cloned().unwrap_or(Value::Null);
+    let provenance = provenance_view(
+        &prov,
+        b.get("catalogue_entry").is_some_and(|e| !e.is_null()),
+        order,
+    );
+    let invariant = b
+        .get("invariant")
+        .and_then(|i| api::s(i, "kind"))
+        .map(|k| k.replace('_', " "));
+    let verification = b.get("verification").cloned().unwrap_or(Value::Null);
+    let order_link = format!("/orders/{order}");
+    let png = format!("/api/matrices/{id}/download?format=png");
+    let cite = format!(
+        "Hadamard Registry. A Hadamard matrix of order {order}, id {id}, {}, {}. {permalink}",
+        made_by(&prov),
+        date_of(&prov)
+    );
+    let id_check = id.clone();
+    let id_dl = id.clone();
+    let id_derived = id.clone();
+    let id_eq = id.clone();
+    let fetch_pm_button = fetch_pm.clone();
     view! {
-        <h1 tabindex="-1">"A Hadamard matrix"</h1>
         <section class="card">
             <p class="label">"Permanent link"</p>
             <div class="permalink">
@@ -176,70 +349,52 @@ pub fn Entry(id: String) -> impl IntoView {
             </div>
             <p class="help" aria-live="polite">{move || copied.get()}</p>
             <p class="label">"Id (SHA-256 of the canonical text)"</p>
-            <p><code class="id" id="entry-id">{id_view}</code></p>
+            <p><code class="id" id="entry-id">{id.clone()}</code></p>
         </section>
-        {move || match meta.get() {
-            None => view! { <p class="waiting">"Loading…"</p> }.into_any(),
-            Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-            Some(Ok(r)) if r.status == 404 => view! {
-                <section class="card"><p class="bad">"No matrix with this id is in the catalogue."</p>
-                <p>"Ids are SHA-256 hashes of the canonical text, so a mistyped link matches nothing. "<a href="/verify">"Verify and publish a matrix"</a>" to create one."</p></section>
-            }.into_any(),
-            Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-            Some(Ok(r)) => {
-                let b = r.body;
-                let order = api::u(&b, "order").unwrap_or(0);
-                let props = b.get("properties").cloned().unwrap_or(Value::Null);
-                let prop_items: Vec<(String, String)> = ["normalized", "symmetric", "skew", "regular"]
-                    .into_iter()
-                    .map(|k| (k.to_string(), match api::b(&props, k) { Some(true) => "yes".into(), Some(false) => "no".into(), None => "—".into() }))
-                    .chain(props.get("excess").map(|e| ("excess".to_string(), api::plain(e))))
-                    .collect();
-                let prov = b.get("provenance").cloned().unwrap_or(Value::Null);
-                let provenance = provenance_view(&prov, b.get("catalogue_entry").is_some_and(|e| !e.is_null()), order);
-                let invariant = b.get("invariant").and_then(|i| api::s(i, "kind")).map(|k| k.replace('_', " "));
-                let verification = b.get("verification").cloned().unwrap_or(Value::Null);
-                let order_link = format!("/orders/{order}");
-                let big = order > PICTURE_MAX_ORDER;
-                let png = format!("/api/matrices/{}/download?format=png", id_check);
-                view! {
-                    <section class="card" aria-labelledby="about-title">
-                        <h2 id="about-title">{format!("Order {order}")}</h2>
-                        <p>"See "<a href=order_link>{format!("everything about order {order}")}</a>"."</p>
-                        <h3>"Properties"</h3>
-                        {dl(prop_items)}
-                        {invariant.map(|k| view! { <p class="help">{format!("Its invariant for telling matrices apart: the {k}, stored with it.")}</p> })}
-                        <h3>"Provenance"</h3>
-                        {provenance}
-                        <h3>"Verification record"</h3>
-                        {dl(facts_list(&verification))}
-                    </section>
-                    <section class="card" aria-labelledby="picture-title">
-                        <h2 id="picture-title">"Picture"</h2>
-                        {if big {
-                            view! { <img class="png" src=png alt=format!("Picture of the matrix of order {order}") /> }.into_any()
-                        } else {
-                            let id_check = id_check.clone();
-                            (move || match matrix.get() {
-                                None => view! { <p class="waiting">"Drawing…"</p> }.into_any(),
-                                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                                Some(Ok(m)) => {
-                                    let matches = hadamard_core::id::matrix_id(&m) == id_check;
-                                    view! {
-                                        <MatrixPicture matrix=m label=format!("Picture of the matrix of order {order}: light squares are +1, dark squares −1.") />
-                                        <p class=if matches { "good" } else { "bad" } id="id-check">
-                                            {if matches { "Checked in your browser: the downloaded rows hash to this id." } else { "Warning: the downloaded rows do not hash to this id." }}
-                                        </p>
-                                    }.into_any()
-                                }
-                            }).into_any()
-                        }}
-                    </section>
-                }.into_any()
-            }
-        }}
+        <section class="card" aria-labelledby="about-title">
+            <h2 id="about-title">{format!("Order {order}")}</h2>
+            <p>"See "<a href=order_link>{format!("everything about order {order}")}</a>"."</p>
+            <h3>"Properties"</h3>
+            {dl(prop_items)}
+            {invariant.map(|k| view! { <p class="help">{format!("Its invariant for telling matrices apart: the {k}, stored with it.")}</p> })}
+            <h3>"Provenance"</h3>
+            {provenance}
+            <h3>"Verification record"</h3>
+            {dl(facts_list(&verification))}
+        </section>
+        <section class="card" aria-labelledby="cite-title">
+            <h2 id="cite-title">"Cite this"</h2>
+            <p class="cite" id="cite-text">{cite}</p>
+            <p class="help">"The id is the SHA-256 of the matrix's rows written as + and −, each followed by a newline: anyone holding the file can check the citation with "<code>"sha256sum"</code>"."</p>
+        </section>
+        <section class="card" aria-labelledby="picture-title">
+            <h2 id="picture-title">"Picture"</h2>
+            {move || match matrix.get() {
+                None => {
+                    let go = fetch_pm_button.clone();
+                    let mb = (order * (order + 1)) as f64 / 1e6;
+                    view! {
+                        <img class="png" src=png.clone() alt=format!("Picture of the matrix of order {order}") />
+                        <p class="help">{format!("The picture is drawn by the server. The server checked this matrix exactly when it was stored and checks it again before serving it. To check here that its rows hash to the id, this page must download the whole canonical text ({mb:.1} MB).")}</p>
+                        <button type="button" id="check-here" on:click=move |_| go()>{format!("Download {mb:.1} MB and check the id here")}</button>
+                    }.into_any()
+                }
+                Some(Err(e)) if e == "…" => view! { <p class="waiting">"Downloading and drawing…"</p> }.into_any(),
+                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
+                Some(Ok(m)) => {
+                    let matches = hadamard_core::id::matrix_id(&m) == id_check;
+                    view! {
+                        <MatrixPicture matrix=m label=format!("Picture of the matrix of order {order}: light squares are +1, dark squares −1.") />
+                        <p class=if matches { "good" } else { "bad" } id="id-check">
+                            {if matches { "Checked in your browser: the downloaded rows hash to this id." } else { "Warning: the downloaded rows do not hash to this id." }}
+                        </p>
+                    }.into_any()
+                }
+            }}
+        </section>
         <section class="card" aria-labelledby="downloads-title">
             <h2 id="downloads-title">"Downloads"</h2>
+            <p class="help">{format!("Each file is named hadamard-{order}-{}-<format>, so the formats never overwrite each other.", &id[..12])}</p>
             <ul class="downloads">
                 {DOWNLOADS.iter().map(|(f, name, conv)| {
                     let href = format!("/api/matrices/{id_dl}/download?format={f}");
@@ -254,7 +409,7 @@ pub fn Entry(id: String) -> impl IntoView {
         </section>
         <section class="card" aria-labelledby="derived-title">
             <h2 id="derived-title">"Made from this matrix"</h2>
-            <p class="help">"Each object states the property that defines it, computed on what was built, and its published source. Rows, columns and points count from 0."</p>
+            <p class="help">"Each object states the property that defines it, computed on what was built, and its published source. Rows, columns and points count from 0. Objects that cannot exist for this matrix are greyed out with the reason."</p>
             <p>
                 <label for="derived-seed">"Seed for the run order "</label>
                 <input id="derived-seed" type="number" min="0" prop:value=move || seed.get()
@@ -264,10 +419,17 @@ pub fn Entry(id: String) -> impl IntoView {
                 {DERIVED.iter().map(|(q, name, conv)| {
                     let id = id_derived.clone();
                     let q = *q;
+                    let kind = q.split('?').next().unwrap_or(q);
                     let href = move || format!("/api/matrices/{id}/derive/{}", q.replace("{seed}", seed.get().trim()));
                     view! {
                         <li>
-                            <a href=href download="" data-derived=q.split('?').next().unwrap_or(q)>{*name}</a>
+                            {move || match unavailable(q, order, &sequency.get()) {
+                                None => view! { <a href=href.clone() download="" data-derived=kind>{*name}</a> }.into_any(),
+                                Some(why) => view! {
+                                    <span class="unavailable" aria-disabled="true" data-derived=kind data-unavailable="true">{*name}</span>
+                                    <span class="why">{why}</span>
+                                }.into_any(),
+                            }}
                             <span class="conv">{*conv}</span>
                         </li>
                     }
@@ -284,24 +446,31 @@ pub fn Entry(id: String) -> impl IntoView {
                                     on:input=move |ev| strata.set(event_target_value(&ev)) />
                                 " strata"
                             </span>
-                            <span class="conv">"A replicate per row, a ±1 sign per stratum: stratum h takes row h of the normalised matrix (the constant row is left out), +1 keeps its first PSU. Needs fewer strata than the order; for k strata the smallest order to use is the smallest known order above k ("<a href="/api/brr?strata=10">"/api/brr?strata=k"</a>")."</span>
+                            <span class="conv">"A replicate per row, a ±1 sign per stratum: stratum h takes row h of the normalised matrix (the constant row is left out), +1 keeps its first PSU. Needs fewer strata than the order; for k strata the smallest order to use is the smallest known order above k ("<a href="/?strata=10">"look up k strata"</a>")."</span>
                         </li>
                     }
                 }
-                {
-                    let id = id_derived.clone();
-                    let href = move || format!("/api/equivalence?a={id}&b={}", other.get().trim());
-                    view! {
-                        <li>
-                            <span>
-                                <a href=href data-derived="equivalence">"Equivalence with"</a>" "
-                                <input type="text" aria-label="The other matrix's id" placeholder="another matrix's id" prop:value=move || other.get()
-                                    on:input=move |ev| other.set(event_target_value(&ev)) />
-                            </span>
-                            <span class="conv">"Whether another stored matrix of the same order is equivalent (rows and columns permuted and negated): a checked certificate, an invariant that differs, or “undecided”."</span>
-                        </li>
-                    }
-                }
+                <li id="equivalence-tool">
+                    <form class="inline" on:submit=move |ev: web_sys::SubmitEvent| {
+                        ev.prevent_default();
+                        let o = other.get_untracked().trim().to_lowercase();
+                        compare.set(None);
+                        compare.set(Some(o));
+                    }>
+                        <label for="equivalence-other">"Equivalent to another matrix? "</label>
+                        <input id="equivalence-other" type="text" placeholder="another matrix's id" prop:value=move || other.get()
+                            on:input=move |ev| other.set(event_target_value(&ev)) />
+                        " "<button type="submit" data-derived="equivalence">"Compare"</button>
+                    </form>
+                    <span class="conv">"Whether another stored matrix of the same order is equivalent (rows and columns permuted and negated): a checked certificate, an invariant that differs, or “undecided”."</span>
+                    {move || compare.get().map(|o| {
+                        if hadamard_core::id::is_id(&o) {
+                            view! { <EquivalenceResult a=id_eq.clone() b=o /> }.into_any()
+                        } else {
+                            view! { <p class="bad">"Type the other matrix's full id (64 hexadecimal digits)."</p> }.into_any()
+                        }
+                    })}
+                </li>
             </ul>
         </section>
     }

@@ -11,6 +11,7 @@
 //! line and column.
 
 use crate::api::{self, next_tick, now_ms};
+use crate::entry::EquivalenceResult;
 use crate::picture::MatrixPicture;
 use crate::pool;
 use hadamard_core::formats::{self, Format, ReadOptions};
@@ -331,6 +332,7 @@ pub fn VerifyPanel(
     let phase = RwSignal::new(Phase::Idle);
     let source = RwSignal::new(None::<Source>);
     let publish = RwSignal::new(Publish::Idle);
+    let confirming = RwSignal::new(false);
     let dragging = RwSignal::new(false);
     let generation = StoredValue::new(0u32);
     pool::warm_up();
@@ -341,6 +343,7 @@ pub fn VerifyPanel(
         let f = format.get_untracked().parse::<Format>().ok();
         source.set(Some(src.clone()));
         publish.set(Publish::Idle);
+        confirming.set(false);
         spawn_local(check(src.bytes, f, phase, move || {
             generation.get_value() == mine
         }));
@@ -539,8 +542,18 @@ pub fn VerifyPanel(
                             "Publishing sends this file to the server, which checks it again before storing it under its permanent link."
                         </p>
                         <button type="button" class="primary" id="publish"
-                            disabled=move || matches!(publish.get(), Publish::Sending | Publish::Stored { .. })
-                            on:click=move |_| do_publish()>"Publish to the catalogue"</button>
+                            disabled=move || confirming.get() || matches!(publish.get(), Publish::Sending | Publish::Stored { .. })
+                            on:click=move |_| confirming.set(true)>"Publish to the catalogue…"</button>
+                        {move || confirming.get().then(|| view! {
+                            <div class="confirm" role="alertdialog" aria-labelledby="confirm-title" id="publish-confirm-box">
+                                <p id="confirm-title"><strong>"Publish this matrix permanently?"</strong>
+                                    " It becomes public under its permanent link, and it can never be changed or withdrawn."</p>
+                                <button type="button" class="primary" id="publish-confirm"
+                                    on:click=move |_| { confirming.set(false); do_publish(); }>"Yes, publish it permanently"</button>
+                                " "
+                                <button type="button" id="publish-cancel" on:click=move |_| confirming.set(false)>"Cancel"</button>
+                            </div>
+                        })}
                         <div class="publish-result" aria-live="polite">
                             {move || match publish.get() {
                                 Publish::Idle => ().into_any(),
@@ -554,15 +567,14 @@ pub fn VerifyPanel(
                                             {if existed { "Already in the catalogue. Its permanent link: " } else { "Published. Its permanent link: " }}
                                             <a href=href.clone() id="permalink">{full}</a>
                                         </p>
-                                        {(!similar.is_empty()).then(|| view! {
-                                            <p>"Possibly equivalent to "
-                                                {similar.into_iter().map(|s| {
-                                                    let h = format!("/m/{s}");
-                                                    let short = format!("{}…", &s[..s.len().min(12)]);
-                                                    view! { <a href=h class="id">{short}</a>" " }
-                                                }).collect_view()}
-                                                "(they share its invariant, which does not prove equivalence)."
-                                            </p>
+                                        {(!similar.is_empty()).then(|| {
+                                            let count = similar.len();
+                                            view! {
+                                                <div id="equivalence-checks">
+                                                    <p>{format!("{count} stored matri{} of this order share{} its invariant, which does not decide equivalence; the equivalence search decides it:", if count == 1 { "x" } else { "ces" }, if count == 1 { "s" } else { "" })}</p>
+                                                    {similar.into_iter().take(5).map(|s| view! { <EquivalenceResult a=id.clone() b=s /> }).collect_view()}
+                                                </div>
+                                            }
                                         })}
                                         {note.map(|n| view! { <p class="help" id="equivalence-note">{format!("Equivalence: {n}.")}</p> })}
                                         <p><a href=href class="button">"Open its page"</a></p>

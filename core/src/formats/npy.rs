@@ -401,16 +401,29 @@ pub(super) fn read(bytes: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseErro
     };
     let mut m = Matrix::ones(srows, scols);
     let row_bytes = scols * size;
+    let scale = scaled_patterns(data, h.dtype, cols);
+    let pats = scale
+        .as_ref()
+        .map_or((h.dtype.plus(), h.dtype.minus()), |(p, m, _)| {
+            (*p, Some(*m))
+        });
     for i in 0..srows {
         let row = &data[i * row_bytes..(i + 1) * row_bytes];
-        if let Err(j) = pack_row(row, h.dtype, m.row_words_mut(i)) {
+        if let Err(j) = pack_row(row, h.dtype, pats, m.row_words_mut(i)) {
             let k = i * scols + j;
             let (r, c) = if h.fortran { (j, i) } else { (i, j) };
             let v = load(&row[j * size..(j + 1) * size], h.dtype.big_endian);
+            let want = match &scale {
+                Some((_, _, shown)) => format!("{shown} or -{shown} (the file is scaled by 1/√{cols}, as its first element says)"),
+                None if h.dtype.kind == b'f' => {
+                    format!("1 or -1 (or ±1/√{cols} throughout, for a scaled float file)")
+                }
+                None => "1 or -1".to_string(),
+            };
             return Err(ParseError::new(
                 Location::Element(k),
                 format!(
-                    "value {} is not 1 or -1 (at [{r}, {c}] in NumPy indexing)",
+                    "value {} is not {want} (at [{r}, {c}] in NumPy indexing)",
                     h.dtype.show(v)
                 ),
             ));
@@ -422,6 +435,35 @@ pub(super) fn read(bytes: &[u8], opts: &ReadOptions) -> Result<Parsed, ParseErro
         format: Format::Npy,
         erasures: Vec::new(),
     })
+}
+
+/// A float file scaled to orthonormal rows, as `H / sqrt(n)` or this registry's
+/// `npy-f64-scaled` download writes it: every entry ±1/√n. When the first element is not ±1
+/// but its magnitude is 1/√cols (to the dtype's precision), the bit patterns of +c and −c,
+/// and c for messages. Every other element must then be exactly one of the two patterns, so
+/// the reading stays a comparison of patterns and a mixed file is refused.
+fn scaled_patterns(data: &[u8], dtype: Dtype, cols: usize) -> Option<(u64, u64, String)> {
+    if dtype.kind != b'f' || cols < 2 || data.len() < dtype.size {
+        return None;
+    }
+    let first = load(&data[..dtype.size], dtype.big_endian);
+    let sign = 1u64 << (8 * dtype.size - 1);
+    let plus = first & !sign;
+    if plus == dtype.plus() {
+        return None;
+    }
+    let value = match dtype.size {
+        2 => f16_to_f64(plus as u16),
+        4 => f64::from(f32::from_bits(plus as u32)),
+        _ => f64::from_bits(plus),
+    };
+    let want = 1.0 / (cols as f64).sqrt();
+    let tolerance = match dtype.size {
+        2 => 2e-3,
+        4 => 1e-6,
+        _ => 1e-12,
+    };
+    ((value - want).abs() <= tolerance * want).then(|| (plus, plus | sign, format!("{value:?}")))
 }
 
 /// One element as an unsigned integer of its bytes.
@@ -436,8 +478,12 @@ fn load(el: &[u8], big_endian: bool) -> u64 {
 }
 
 /// Packs one stored row into `out`; on a value that is not ±1, its index in the row.
-fn pack_row(row: &[u8], dtype: Dtype, out: &mut [u64]) -> Result<(), usize> {
-    let (plus, minus) = (dtype.plus(), dtype.minus());
+fn pack_row(
+    row: &[u8],
+    dtype: Dtype,
+    (plus, minus): (u64, Option<u64>),
+    out: &mut [u64],
+) -> Result<(), usize> {
     match dtype.size {
         1 if minus.is_some() => pack_i8(row, out),
         1 => pack_n::<1>(row, false, plus, minus, out),

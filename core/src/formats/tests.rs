@@ -126,8 +126,24 @@ fn scaled_f64_rows_are_unit_vectors() {
         .collect();
     assert!(x.iter().all(|v| (v.abs() - 0.25).abs() < 1e-15));
     assert_eq!(x[0] < 0.0, m.is_negative(0, 0));
-    let e = read(&out, &ReadOptions::default()).unwrap_err();
+    // The registry's own scaled download reads back as the matrix it came from.
+    assert_eq!(read(&out, &ReadOptions::default()).unwrap().matrix, m);
+    // Another scale is refused at its first element; so is one element off the scale.
+    let mut half = out.clone();
+    let n = half.len();
+    for c in half[n - 4 * 16 * 8..].chunks_exact_mut(8) {
+        let v = f64::from_le_bytes((&*c).try_into().unwrap()) * 2.0;
+        c.copy_from_slice(&v.to_le_bytes());
+    }
+    let e = read(&half, &ReadOptions::default()).unwrap_err();
     assert_eq!(e.location, Location::Element(0));
+    assert!(e.message.contains("1/√16"), "{}", e.message);
+    let mut mixed = out.clone();
+    let at = n - 4 * 16 * 8 + 5 * 8;
+    mixed[at..at + 8].copy_from_slice(&1.0f64.to_le_bytes());
+    let e = read(&mixed, &ReadOptions::default()).unwrap_err();
+    assert_eq!(e.location, Location::Element(5));
+    assert!(e.message.contains("scaled by 1/√16"), "{}", e.message);
 }
 
 #[test]

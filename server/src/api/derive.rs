@@ -204,8 +204,15 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                 centre_points: number(q, "centre-points")?.unwrap_or(0),
                 seed: number(q, "seed")?,
             };
+            // Distinct names for the two files a user is likely to keep side by side.
+            let what = match (cfg.fold_over, cfg.factors) {
+                (true, Some(k)) => format!("screening-{k}-factors-foldover"),
+                (true, None) => "screening-foldover".to_string(),
+                (false, Some(k)) => format!("screening-{k}-factors"),
+                (false, None) => "screening".to_string(),
+            };
             let d = screening_design(v, &cfg).map_err(bad)?;
-            csv_or_json(q, v, "screening", d, |d, b| d.write_csv(b))
+            csv_or_json(q, v, &what, d, |d, b| d.write_csv(b))
         }
         "brr" => {
             let k = number(q, "strata")?.ok_or_else(|| {

@@ -454,7 +454,18 @@ pub async fn download(
     let n = v.order();
     let f = format.clone();
     let body = stream_body(move |w| formats::write_to(v.matrix(), &f, w));
-    let filename = format!("hadamard-{n}-{}.{}", &id[..12], format.extension());
+    // Each format has its own name, so the three `.npy` variants never overwrite each other.
+    let filename = match format {
+        WriteFormat::Pm => format!("hadamard-{n}-{}.txt", &id[..12]),
+        WriteFormat::Npy => format!("hadamard-{n}-{}-int8.npy", &id[..12]),
+        WriteFormat::Bits { .. } => format!("hadamard-{n}-{}-bits.txt", &id[..12]),
+        _ => format!(
+            "hadamard-{n}-{}-{}.{}",
+            &id[..12],
+            format.name(),
+            format.extension()
+        ),
+    };
     let mut resp = (StatusCode::OK, immutable_headers(&etag), body).into_response();
     let h = resp.headers_mut();
     h.insert(
