@@ -58,7 +58,7 @@ suite() {
 check() {
   local name=$1; shift
   echo "==> $name"
-  if "$@"; then passed=$((passed + 1)); echo "ok: $name"; else failed=$((failed + 1)); broken+=("$name"); echo "FAILED: $name"; fi
+  if "$@"; then passed=$((passed + 1)); echo "ok: $name"; else failed=$((failed + 1)); broken+=("$name"); echo "FAILED: $name"; return 1; fi
 }
 
 # skip NAME WHY: a suite that could not run counts as failed, with the reason.
@@ -95,7 +95,7 @@ if [ "$built" -eq 1 ]; then
   [ -f tests/browser/run.mjs ] &&
     suite "browser tests (headless Chromium)" node tests/browser/run.mjs
 else
-  for s in "cargo test" "core in wasm32" "cross-checks (pytest)" "Slurm" "browser tests"; do
+  for s in "cargo test" "core in wasm32" "cross-checks (pytest)" "Python package" "Slurm" "browser tests"; do
     skip "$s" "not run: the build failed, and the binary would be stale"
   done
 fi

@@ -562,6 +562,10 @@ pub fn VerifyPanel(
                                 Publish::Stored { id, url, existed, similar, note } => {
                                     let href = format!("/m/{id}");
                                     let full = absolute(&url);
+                                    // The server's note only says "possibly equivalent"; where
+                                    // there are candidates the equivalence search below decides,
+                                    // so the note is shown only when there is nothing to check.
+                                    let note = note.filter(|_| similar.is_empty());
                                     view! {
                                         <p id="publish-ok" data-id=id.clone()>
                                             {if existed { "Already in the catalogue. Its permanent link: " } else { "Published. Its permanent link: " }}
