@@ -116,18 +116,23 @@ impl<T: AsyncRead> AsyncRead for Guarded<T> {
     }
 }
 
-impl<T: AsyncWrite> AsyncWrite for Guarded<T> {
-    fn poll_write(
+impl<T: AsyncWrite> Guarded<T> {
+    /// One write-side call on the socket: a `Ready` ends the blocked-write clock, and one that
+    /// `moved` bytes resets the idle clock; a call still pending `write` after it first blocked
+    /// fails with `TimedOut`, so a client that stops reading cannot pin a connection.
+    fn guard_write<R>(
         self: Pin<&mut Self>,
         cx: &mut Context<'_>,
-        data: &[u8],
-    ) -> Poll<io::Result<usize>> {
+        call: impl FnOnce(Pin<&mut T>, &mut Context<'_>) -> Poll<io::Result<R>>,
+        moved: impl FnOnce(&io::Result<R>) -> bool,
+    ) -> Poll<io::Result<R>> {
         let this = self.project();
-        match this.inner.poll_write(cx, data) {
+        match call(this.inner, cx) {
             Poll::Ready(r) => {
-                if matches!(r, Ok(k) if k > 0) {
+                // The call is no longer blocked; only bytes moved count against idleness.
+                *this.write_since = None;
+                if moved(&r) {
                     *this.last_progress = Instant::now();
-                    *this.write_since = None;
                 }
                 Poll::Ready(r)
             }
@@ -143,6 +148,20 @@ impl<T: AsyncWrite> AsyncWrite for Guarded<T> {
                 }
             }
         }
+    }
+}
+
+impl<T: AsyncWrite> AsyncWrite for Guarded<T> {
+    fn poll_write(
+        self: Pin<&mut Self>,
+        cx: &mut Context<'_>,
+        data: &[u8],
+    ) -> Poll<io::Result<usize>> {
+        self.guard_write(
+            cx,
+            |w, cx| w.poll_write(cx, data),
+            |r| matches!(r, Ok(k) if *k > 0),
+        )
     }
 
     fn poll_write_vectored(
@@ -150,27 +169,11 @@ impl<T: AsyncWrite> AsyncWrite for Guarded<T> {
         cx: &mut Context<'_>,
         bufs: &[io::IoSlice<'_>],
     ) -> Poll<io::Result<usize>> {
-        let this = self.project();
-        match this.inner.poll_write_vectored(cx, bufs) {
-            Poll::Ready(r) => {
-                if matches!(r, Ok(k) if k > 0) {
-                    *this.last_progress = Instant::now();
-                    *this.write_since = None;
-                }
-                Poll::Ready(r)
-            }
-            Poll::Pending => {
-                let since = *this.write_since.get_or_insert_with(Instant::now);
-                if expired(this.write_timer, since + *this.write, cx) {
-                    Poll::Ready(Err(io::Error::new(
-                        io::ErrorKind::TimedOut,
-                        "the client stopped reading",
-                    )))
-                } else {
-                    Poll::Pending
-                }
-            }
-        }
+        self.guard_write(
+            cx,
+            |w, cx| w.poll_write_vectored(cx, bufs),
+            |r| matches!(r, Ok(k) if *k > 0),
+        )
     }
 
     fn is_write_vectored(&self) -> bool {
@@ -178,24 +181,7 @@ impl<T: AsyncWrite> AsyncWrite for Guarded<T> {
     }
 
     fn poll_flush(self: Pin<&mut Self>, cx: &mut Context<'_>) -> Poll<io::Result<()>> {
-        let this = self.project();
-        match this.inner.poll_flush(cx) {
-            Poll::Pending => {
-                let since = *this.write_since.get_or_insert_with(Instant::now);
-                if expired(this.write_timer, since + *this.write, cx) {
-                    Poll::Ready(Err(io::Error::new(
-                        io::ErrorKind::TimedOut,
-                        "the client stopped reading",
-                    )))
-                } else {
-                    Poll::Pending
-                }
-            }
-            r => {
-                *this.write_since = None;
-                r
-            }
-        }
+        self.guard_write(cx, |w, cx| w.poll_flush(cx), |_| false)
     }
 
     fn poll_shutdown(self: Pin<&mut Self>, cx: &mut Context<'_>) -> Poll<io::Result<()>> {
