@@ -207,7 +207,6 @@ for _ in $(seq 150); do
   sleep 0.2
 done
 note "Williamson m=33: shard 1 requeued: $(squeue -h -j "${w_array}_1" -o '%T, begins %S')"
-scontrol update JobId="${w_array}_1" StartTime=now
 # Shard 2 is told its time is running out, as --signal=B:USR1@300 does: USR1 to the batch
 # shell only. The job script must stop the search at the end of its batch and requeue itself.
 wait_mid_run "$wi/checkpoint-2.json" 60
@@ -218,6 +217,10 @@ for _ in $(seq 150); do
 done
 [ "$(job_state "${w_array}_2")" = PENDING ] || fail "Williamson shard 2 did not requeue itself after USR1"
 note "Williamson m=33: shard 2 requeued itself"
+# slurmd refuses a launch credential issued in the same second as the old instance's
+# revocation ("Job credential revoked"), so both restarts are at least two seconds later.
+sleep 2
+scontrol update JobId="${w_array}_1" StartTime=now
 scontrol update JobId="${w_array}_2" StartTime=now
 
 wait_gone "$tt_array" 120
