@@ -808,6 +808,20 @@ fn permutations4() -> Vec<[usize; 4]> {
     out
 }
 
+/// The multipliers reduced mod v and the group they generate, or the first that is not a unit
+/// mod v (an empty list is refused too).
+fn unit_group(v: usize, gens: &[usize]) -> Result<(Vec<usize>, Vec<usize>), ShapeError> {
+    if let Some(&g) = gens.iter().find(|&&g| v < 2 || gcd(g % v, v) != 1) {
+        return Err(ShapeError::NotAUnit { v, multiplier: g });
+    }
+    if gens.is_empty() {
+        return Err(ShapeError::NotAUnit { v, multiplier: 0 });
+    }
+    let gens: Vec<usize> = gens.iter().map(|g| g % v).collect();
+    let h = generated_group(v, &gens);
+    Ok((gens, h))
+}
+
 impl GsSearch {
     /// Prepares the search over all sequences of length v ≤ 40: decompositions of 4v and
     /// their candidate sequences.
@@ -836,14 +850,7 @@ impl GsSearch {
     /// Prepares the search over the sequences of length v fixed by the group the multipliers
     /// `gens` generate mod v.
     pub fn with_multipliers(v: usize, gens: &[usize]) -> Result<Self, ShapeError> {
-        if let Some(&g) = gens.iter().find(|&&g| v < 2 || gcd(g % v, v) != 1) {
-            return Err(ShapeError::NotAUnit { v, multiplier: g });
-        }
-        if gens.is_empty() {
-            return Err(ShapeError::NotAUnit { v, multiplier: 0 });
-        }
-        let gens: Vec<usize> = gens.iter().map(|g| g % v).collect();
-        let h = generated_group(v, &gens);
+        let (gens, h) = unit_group(v, gens)?;
         let orbits = self::orbits(v, &h);
         if orbits.len() > MAX_ORBITS {
             return Err(ShapeError::TooManyOrbits {
@@ -879,14 +886,7 @@ impl GsSearch {
     /// tried, so every quadruple found is one of a class; none found proves there is no such
     /// quadruple with these types and this group.
     pub fn with_types(v: usize, gens: &[usize], types: [BlockType; 4]) -> Result<Self, ShapeError> {
-        if let Some(&g) = gens.iter().find(|&&g| v < 2 || gcd(g % v, v) != 1) {
-            return Err(ShapeError::NotAUnit { v, multiplier: g });
-        }
-        if gens.is_empty() {
-            return Err(ShapeError::NotAUnit { v, multiplier: 0 });
-        }
-        let gens: Vec<usize> = gens.iter().map(|g| g % v).collect();
-        let h = generated_group(v, &gens);
+        let (gens, h) = unit_group(v, gens)?;
         let orbits = self::orbits(v, &h);
         let mut by_type: Vec<(BlockType, Arc<Basis>)> = Vec::new();
         let mut bases = Vec::new();
