@@ -559,7 +559,8 @@ mod tests {
     use crate::derive::rng::SplitMix64;
     use crate::verify::verify;
 
-    fn sylvester(k: u32) -> Matrix {
+    /// Sylvester's matrix of order 2^k, for the tests here and in `signs`.
+    pub(super) fn sylvester(k: u32) -> Matrix {
         let n = 1usize << k;
         Matrix::from_fn(n, n, |i, j| (i & j).count_ones() % 2 == 1)
     }

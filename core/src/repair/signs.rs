@@ -203,10 +203,7 @@ mod tests {
     use crate::derive::rng::SplitMix64;
     use crate::verify::verify;
 
-    fn sylvester(k: u32) -> Matrix {
-        let n = 1usize << k;
-        Matrix::from_fn(n, n, |i, j| (i & j).count_ones() % 2 == 1)
-    }
+    use crate::repair::tests::sylvester;
 
     #[test]
     fn random_wrong_signs_are_corrected_in_order_128() {
