@@ -6,28 +6,28 @@
 //! n/2 places. Nothing is sampled and nothing is rounded; the verdict `hadamard: true` comes
 //! only from this pass over all n(n−1)/2 pairs.
 //!
-//! Two families of [`Kernel`] do the counting:
-//! - tiles: the pairs are visited in 4×4 tiles of rows, so each loaded word serves four
-//!   products and the sixteen running popcounts stay in registers (scalar `count_ones`, the
-//!   POPCNT instruction, AVX-512 VPOPCNTDQ eight words at a time, or wasm32's
-//!   `i8x16.popcnt` two words at a time);
-//! - bit-sliced ([`sliced`]): one bit lane per pair, carry-save adders over a transposed panel
-//!   of rows, no popcount in the loop: 128 pairs per `v128` in wasm32 with simd128, 256 per
-//!   `__m256i` with AVX2, 512 per `__m512i` with AVX-512. It takes every matrix with an even
-//!   number of columns (below 65 535); other shapes go to the tile named by
-//!   [`Kernel::for_shape`]. A pair it flags is recounted exactly with popcount.
+//! How the parts fit, from the answer down to the instructions:
 //!
-//! The kernel is a parameter ([`verify_with`], [`is_hadamard_with`],
-//! [`Progressive::with_kernel`]); [`Kernel::best`] picks the fastest this CPU has, detected
-//! at run time on x86-64 (`is_x86_feature_detected!`) and fixed at build time in wasm32,
-//! where the simd128 kernels exist only when the crate is compiled with
-//! `-C target-feature=+simd128` (the browser app is). Natively the work is spread over
-//! threads. In wasm32 it runs on the caller's thread, either in steps of bounded size so that
-//! a page can yield between them ([`Progressive`]), or cut into shares that Web Workers check
-//! and the page merges exactly ([`Split`], [`check_share`], [`Merge`]).
+//! - `report`: what a verdict says. [`Report`] (the failures, the failing pairs, the id, the
+//!   [`Properties`]), the [`Facts`] a report holds beside the pair check, and [`Verified`],
+//!   the only proof this crate accepts that a matrix is Hadamard: only [`certify`] makes one,
+//!   and it runs the exact check.
+//! - `pass`: the walk over all pairs. The rows j are cut into panels; every pair (i, j) with
+//!   i < j and j in a panel is counted by a kernel and the failing ones go to a tally, which
+//!   keeps the first `cap` in (i, j) order exactly however the panels are spread over threads.
+//!   [`Progressive`] walks the same panels a few at a time, for a page that must yield.
+//! - `kernel`: which [`Kernel`] counts. The popcount tiles live there (scalar, POPCNT,
+//!   AVX-512 VPOPCNTDQ, wasm32 simd128), and `sliced` holds the bit-sliced kernels (AVX2,
+//!   AVX-512, simd128), written once over a vector trait. The kernel is a parameter
+//!   ([`verify_with`], [`is_hadamard_with`], [`Progressive::with_kernel`]); [`Kernel::best`]
+//!   picks the fastest this CPU has. A kernel never changes a verdict, only its speed.
+//! - `shares`: the pass cut into [`Split`] shares (one per panel) that Web Workers check with
+//!   [`check_share`], and the exact [`Merge`] of their results into the same [`Report`] that
+//!   [`verify`] gives.
 //!
-//! [`Verified`] is the only proof this crate accepts that a matrix is Hadamard: it can be made
-//! only by [`certify`], which runs the exact check.
+//! The functions here are the entry points: [`verify`] (the report) and [`is_hadamard`] (the
+//! verdict alone, stopping at the first failing pair). Natively the pair check is spread over
+//! threads and runs beside the id and properties; in wasm32 it runs on the caller's thread.
 
 use crate::matrix::Matrix;
 
@@ -63,8 +63,7 @@ pub fn is_hadamard_with(m: &Matrix, kernel: Kernel) -> bool {
     if !m.is_square() || !order_possible(m.rows()) {
         return false;
     }
-    let mut acc = PairTally::new(0);
-    acc.stop_at_first = true;
+    let mut acc = PairTally::first_only();
     gram_pass(m, kernel, &mut acc);
     acc.total == 0
 }

@@ -1,4 +1,20 @@
-//! The kernels of the check: which exist, and the popcount tiles.
+//! The kernels of the check: which exist, which this CPU has, and the popcount tiles.
+//!
+//! Two families of [`Kernel`] do the counting:
+//! - tiles (here): the pairs are visited in 4×4 tiles of rows, so each loaded word serves four
+//!   products and the sixteen running popcounts stay in registers (scalar `count_ones`, the
+//!   POPCNT instruction, AVX-512 VPOPCNTDQ eight words at a time, or wasm32's
+//!   `i8x16.popcnt` two words at a time);
+//! - bit-sliced (`sliced`): one bit lane per pair, carry-save adders over a transposed panel
+//!   of rows, no popcount in the loop: 128 pairs per `v128` in wasm32 with simd128, 256 per
+//!   `__m256i` with AVX2, 512 per `__m512i` with AVX-512. It takes every matrix with an even
+//!   number of columns (below 65 535); other shapes go to the tile named by
+//!   [`Kernel::for_shape`]. A pair it flags is recounted exactly with popcount.
+//!
+//! [`Kernel::best`] picks the fastest this CPU has, detected at run time on x86-64
+//! (`is_x86_feature_detected!`) and fixed at build time in wasm32, where the simd128 kernels
+//! exist only when the crate is compiled with `-C target-feature=+simd128` (the browser app
+//! is).
 
 use super::sliced;
 use crate::matrix::Matrix;

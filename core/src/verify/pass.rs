@@ -26,6 +26,20 @@ impl PairTally {
             stop_at_first: false,
         }
     }
+    /// A tally that only says whether any pair fails: it lists none and stops at the first.
+    pub(super) fn first_only() -> PairTally {
+        PairTally {
+            stop_at_first: true,
+            ..PairTally::new(0)
+        }
+    }
+    /// An empty tally with the same cap and stopping rule, for one thread's part of the work.
+    pub(super) fn empty_like(&self) -> PairTally {
+        PairTally {
+            stop_at_first: self.stop_at_first,
+            ..PairTally::new(self.cap)
+        }
+    }
     #[inline]
     pub(super) fn record(&mut self, i: usize, j: usize, dot: i64) {
         self.total += 1;
@@ -99,8 +113,6 @@ pub(super) fn gram_pass(m: &Matrix, kernel: Kernel, tally: &mut PairTally) {
     {
         if panels > 1 && parallel {
             use rayon::prelude::*;
-            let stop = tally.stop_at_first;
-            let cap = tally.cap;
             // Later panels hold more pairs; hand them out first so the threads finish together.
             let parts: Vec<PairTally> = (0..panels)
                 .rev()
@@ -108,8 +120,7 @@ pub(super) fn gram_pass(m: &Matrix, kernel: Kernel, tally: &mut PairTally) {
                 .into_par_iter()
                 .with_max_len(1)
                 .map(|p| {
-                    let mut t = PairTally::new(cap);
-                    t.stop_at_first = stop;
+                    let mut t = tally.empty_like();
                     panel_pass(m, kernel, panel, p, &mut t);
                     t
                 })

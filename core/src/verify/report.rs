@@ -1,4 +1,5 @@
-//! What a verdict says: the report, the properties, and the proof [`Verified`].
+//! What a verdict says: the [`Report`] of the exact check, the [`Properties`] and [`Facts`]
+//! it carries, and the proof [`Verified`], which only [`certify`] makes.
 
 use super::pass::PairTally;
 use super::{is_hadamard, verify, Kernel};

@@ -1,4 +1,6 @@
-//! The check cut into shares that run elsewhere (Web Workers), and their exact merge.
+//! The check cut into shares that run elsewhere (the page's Web Workers), and their exact
+//! merge: [`Split`] says how the pairs are cut, [`check_share`] checks one share, [`Merge`]
+//! adds the shares up and gives the report [`super::verify`] would.
 
 use super::kernel::Kernel;
 use super::pass::{panel_pairs, panel_pass, panel_rows, PairTally};

@@ -411,13 +411,12 @@ fn check_rows<V: Lanes, const B: usize>(
             use rayon::prelude::*;
             // Rows i below the panel cost the same each; cut them into about sixteen pieces.
             let piece = (p1 / 16).max(32);
-            let (cap, stop) = (tally.cap, tally.stop_at_first);
+            let empty = tally.empty_like();
             let parts: Vec<PairTally> = (0..p1.div_ceil(piece))
                 .into_par_iter()
                 .with_max_len(1)
                 .map(|k| {
-                    let mut t = PairTally::new(cap);
-                    t.stop_at_first = stop;
+                    let mut t = empty.empty_like();
                     run(&panel, k * piece, ((k + 1) * piece).min(p1), &mut t);
                     t
                 })
