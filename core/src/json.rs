@@ -6,59 +6,25 @@
 //!
 //! Core reads no clock, so the time the check took is measured by the caller and passed in.
 
-use crate::matrix::Matrix;
-use crate::repair::{self, Axis, Completion, CompletionReport, Proof, SignRepair};
+use crate::diagnose::Diagnosis;
+use crate::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use crate::route::{self, OrderInfo};
 use crate::verify::Report;
 use serde_json::{json, Value};
 
-/// What follows the exact check: whether the matrix as read is Hadamard (a matrix with erased
-/// entries is not, until they are known), the wrong signs that explain a failure, and what
-/// the erased entries can be.
-#[derive(Clone, Debug)]
-pub struct FollowUp {
-    /// True when the check passed and nothing is erased.
-    pub hadamard: bool,
-    /// The wrong signs, looked for only when the matrix failed and nothing is erased.
-    pub repair: Option<SignRepair>,
-    /// The completions, looked for only when entries are erased.
-    pub completion: Option<CompletionReport>,
-    /// How many entries are erased.
-    pub erased: usize,
-    /// The erased entries, (row, col).
-    pub erasures: Vec<(usize, usize)>,
-}
-
-/// Runs the repair or the completion that `report` (which must be `verify(m)`'s) calls for.
-/// `erasures` are the (row, col) of entries that are unknown; they are stored as +1 in `m`.
-pub fn follow_up(m: &Matrix, erasures: &[(usize, usize)], report: &Report) -> FollowUp {
-    let erased = !erasures.is_empty();
-    let hadamard = report.hadamard && !erased;
-    let completion =
-        erased.then(|| repair::complete(m, erasures, repair::CompletionLimits::default()));
-    let repair = (!hadamard && !erased)
-        .then(|| repair::wrong_signs(m, report))
-        .flatten();
-    FollowUp {
-        hadamard,
-        repair,
-        completion,
-        erased: erasures.len(),
-        erasures: erasures.to_vec(),
-    }
-}
-
 /// The object `hadamard verify --json` prints: the report, with the verdict for the matrix as
-/// read, the format it was read as, 0-based failing pairs, the time the check took, and the
-/// repair and completion (`null` when not relevant).
-pub fn verification(report: &Report, f: &FollowUp, format: &str, elapsed_ms: f64) -> Value {
+/// read ([`Diagnosis`]: `verdict`, and `hadamard` true only for the verdict `hadamard`), the
+/// format it was read as, 0-based failing pairs, the time the check took, and the repair and
+/// completion (`null` when not relevant).
+pub fn verification(report: &Report, f: &Diagnosis, format: &str, elapsed_ms: f64) -> Value {
     let mut v = serde_json::to_value(report).unwrap_or(Value::Null);
     if let Value::Object(o) = &mut v {
-        o.insert("hadamard".into(), json!(f.hadamard));
+        o.insert("verdict".into(), json!(f.verdict));
+        o.insert("hadamard".into(), json!(f.is_hadamard()));
         o.insert("format".into(), json!(format));
         o.insert("failing_pairs_index_base".into(), json!(0));
         o.insert("elapsed_ms".into(), json!(elapsed_ms));
-        o.insert("erased_entries".into(), json!(f.erased));
+        o.insert("erased_entries".into(), json!(f.erasures.len()));
         o.insert(
             "repair".into(),
             f.repair.as_ref().map_or(Value::Null, repair_json),
@@ -200,6 +166,8 @@ pub fn smallest_at_least(k: u64) -> (Option<OrderInfo>, Option<OrderInfo>, Value
 mod tests {
     use super::*;
     use crate::construct::paley_one;
+    use crate::diagnose::diagnose;
+    use crate::repair::CompletionLimits;
     use crate::verify::verify;
 
     #[test]
@@ -207,9 +175,10 @@ mod tests {
         let mut m = paley_one(11).unwrap().into_matrix();
         m.flip(3, 5);
         let r = verify(&m);
-        let f = follow_up(&m, &[], &r);
+        let f = diagnose(&m, &[], &r, CompletionLimits::default());
         let v = verification(&r, &f, "pm", 0.0);
         assert_eq!(v["hadamard"], json!(false));
+        assert_eq!(v["verdict"], json!("not_hadamard"));
         assert_eq!(v["repair"]["row"], json!(3));
         assert_eq!(v["repair"]["col"], json!(5));
         assert_eq!(v["completion"], Value::Null);
@@ -220,9 +189,10 @@ mod tests {
         let h = paley_one(11).unwrap();
         let m = h.matrix().clone();
         let r = verify(&m);
-        let f = follow_up(&m, &[(2, 2)], &r);
+        let f = diagnose(&m, &[(2, 2)], &r, CompletionLimits::default());
         let v = verification(&r, &f, "pm", 0.0);
         assert_eq!(v["hadamard"], json!(false));
+        assert_eq!(v["verdict"], json!("incomplete"));
         assert_eq!(v["erased_entries"], json!(1));
         assert_eq!(v["completion"]["kind"], json!("unique"));
         assert_eq!(v["completion"]["completed_sha256"], json!(h.id()));

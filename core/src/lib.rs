@@ -16,6 +16,7 @@
 pub mod arith;
 pub mod construct;
 pub mod derive;
+pub mod diagnose;
 pub mod field;
 pub mod formats;
 pub mod id;

@@ -92,7 +92,8 @@ def verify(a: Union[Any, PathLike], *, max_pairs: int = 64) -> Dict[str, Any]:
     registry's formats (``+``/``-`` text, CSV, 0/1 bits, JSON, ``.npy``). In a float array a
     NaN is an erased entry (as ``?`` is in a text file): the matrix is then not Hadamard
     until its erased entries are known, and ``completion`` says whether orthogonality fixes
-    them. Keys: ``hadamard`` (the verdict), ``order``, ``cols``, ``failures``,
+    them. Keys: ``verdict`` (``"hadamard"``, ``"incomplete"`` or ``"not_hadamard"``, core's
+    rule as in the CLI), ``hadamard`` (true for the first only), ``order``, ``cols``, ``failures``,
     ``failing_pairs`` (0-based rows ``i < j`` and their inner product, at most ``max_pairs``),
     ``failing_pairs_total``, ``properties``, ``sha256`` (the id), ``repair`` (the wrong
     signs that explain the failures, or ``None``), ``completion``, ``format``,

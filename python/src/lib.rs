@@ -15,9 +15,11 @@ use hadamard_core::construct::{kronecker, sylvester};
 use hadamard_core::derive::brr::replication;
 use hadamard_core::derive::screening::{screening_design, ScreeningConfig};
 use hadamard_core::derive::DeriveError;
+use hadamard_core::diagnose::diagnose;
 use hadamard_core::formats::{self, ReadOptions};
 use hadamard_core::json;
 use hadamard_core::matrix::Matrix;
+use hadamard_core::repair::CompletionLimits;
 use hadamard_core::route::{self, BuildError, Status};
 use hadamard_core::verify::{self, certify, Verified};
 use numpy::ndarray::Array2;
@@ -163,7 +165,7 @@ fn check(m: &Matrix, erasures: &[(usize, usize)], format: &str, cap: usize) -> S
     let start = Instant::now();
     let report = verify::verify_with_cap(m, cap);
     let elapsed = start.elapsed().as_secs_f64() * 1e3;
-    let follow = json::follow_up(m, erasures, &report);
+    let follow = diagnose(m, erasures, &report, CompletionLimits::default());
     to_json(&json::verification(&report, &follow, format, elapsed))
 }
 

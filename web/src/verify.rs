@@ -6,16 +6,18 @@
 //! report; the page only posts messages and moves the progress bar. Smaller matrices, and
 //! browsers where workers cannot start, are checked on the page in slices
 //! ([`hadamard_core::verify::Progressive`]) with a turn of the event loop between them, each
-//! slice sized to take about 25 ms, so the page keeps answering either way. The verdict follows the CLI's rules: a matrix with erased entries is
-//! not Hadamard until they are known, and a malformed input gets core's own message with its
-//! line and column.
+//! slice sized to take about 25 ms, so the page keeps answering either way. The verdict is
+//! core's ([`hadamard_core::diagnose`], as in the CLI and the API): a matrix with erased
+//! entries is incomplete until they are known, else the wrong signs that explain a failure are
+//! looked for; a malformed input gets core's own message with its line and column.
 
 use crate::api::{self, next_tick, now_ms};
 use crate::entry::EquivalenceResult;
 use crate::picture::MatrixPicture;
 use crate::pool;
+use hadamard_core::diagnose::{self, diagnose};
 use hadamard_core::formats::{self, Format, ReadOptions};
-use hadamard_core::repair::{self, Completion, CompletionReport, Proof};
+use hadamard_core::repair::{Completion, CompletionLimits, CompletionReport, Proof};
 use hadamard_core::verify::{Failure, Progressive, Report};
 use hadamard_core::Matrix;
 use leptos::prelude::*;
@@ -60,7 +62,8 @@ enum Fix {
 #[derive(Clone)]
 struct Outcome {
     report: Arc<Report>,
-    hadamard: bool,
+    /// Core's verdict on the matrix as read.
+    verdict: diagnose::Verdict,
     format: Format,
     erasures: usize,
     /// Bit set at the erased entries.
@@ -203,9 +206,6 @@ async fn check(
     // The id and properties were a pass of their own; let the page breathe before drawing.
     next_tick().await;
     let erasures = parsed.erasures.len();
-    let hadamard = report.hadamard && erasures == 0;
-    let mut fix = None;
-    let mut completion = None;
     let unknown = (erasures > 0).then(|| {
         let mut u = Matrix::ones(m.rows(), m.cols());
         for &(i, j) in &parsed.erasures {
@@ -214,26 +214,31 @@ async fn check(
         Arc::new(u)
     });
     if erasures > 0 {
+        // The completion can take a while: show the bar full first.
         phase.set(Phase::Checking(1.0));
         next_tick().await;
-        let c = repair::complete(&m, &parsed.erasures, repair::CompletionLimits::default());
-        completion = Some(completion_words(&c));
-        if let Completion::Unique { id, matrix, .. } = c.outcome {
-            fix = Some(Fix::Completed {
-                id,
-                corrected: Arc::new(matrix.into_matrix()),
-            });
-        }
-    } else if !hadamard {
-        if let Some(r) = repair::wrong_signs(&m, &report) {
-            fix = Some(Fix::Signs {
-                entries: r.entries,
-                id: r.corrected_id,
-                corrected: Arc::new(r.corrected.into_matrix()),
-                unique: r.unique_within_distance,
-            });
-        }
     }
+    let d = diagnose(&m, &parsed.erasures, &report, CompletionLimits::default());
+    let completion = d.completion.as_ref().map(completion_words);
+    let fix = match (d.repair, d.completion) {
+        (Some(r), _) => Some(Fix::Signs {
+            entries: r.entries,
+            id: r.corrected_id,
+            corrected: Arc::new(r.corrected.into_matrix()),
+            unique: r.unique_within_distance,
+        }),
+        (
+            None,
+            Some(CompletionReport {
+                outcome: Completion::Unique { id, matrix, .. },
+                ..
+            }),
+        ) => Some(Fix::Completed {
+            id,
+            corrected: Arc::new(matrix.into_matrix()),
+        }),
+        _ => None,
+    };
     let marked = match &fix {
         Some(Fix::Signs { entries, .. }) => {
             let mut rows: Vec<usize> = entries.iter().map(|e| e.0).collect();
@@ -248,7 +253,7 @@ async fn check(
     }
     phase.set(Phase::Done(Outcome {
         report: Arc::new(report),
-        hadamard,
+        verdict: d.verdict,
         format: parsed.format,
         erasures,
         unknown,
@@ -426,9 +431,11 @@ pub fn VerifyPanel(
     };
 
     let verdict_attr = move || match phase.get() {
-        Phase::Done(o) if o.hadamard => Some("hadamard"),
-        Phase::Done(o) if o.erasures > 0 => Some("incomplete"),
-        Phase::Done(_) => Some("not-hadamard"),
+        Phase::Done(o) => Some(match o.verdict {
+            diagnose::Verdict::Hadamard => "hadamard",
+            diagnose::Verdict::Incomplete => "incomplete",
+            diagnose::Verdict::NotHadamard => "not-hadamard",
+        }),
         Phase::Malformed(_) => Some("error"),
         _ => None,
     };
@@ -533,7 +540,7 @@ pub fn VerifyPanel(
             </div>
 
             {move || match phase.get() {
-                Phase::Done(o) if o.hadamard => Some(view! {
+                Phase::Done(o) if o.verdict == diagnose::Verdict::Hadamard => Some(view! {
                     <section class="publish" aria-labelledby="publish-title">
                         <h3 id="publish-title">"Publish to the catalogue"</h3>
                         <p class="notice">
@@ -616,12 +623,14 @@ fn Verdict(
     } else {
         format!("{}×{}", r.order, r.cols)
     };
-    let headline = if o.erasures > 0 {
-        format!("Incomplete: {} entries erased (?), {shape}.", o.erasures)
-    } else if o.hadamard {
-        format!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {n}·I).")
-    } else {
-        format!("Not Hadamard: {shape}.")
+    let headline = match o.verdict {
+        diagnose::Verdict::Incomplete => {
+            format!("Incomplete: {} entries erased (?), {shape}.", o.erasures)
+        }
+        diagnose::Verdict::Hadamard => {
+            format!("Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {n}·I).")
+        }
+        diagnose::Verdict::NotHadamard => format!("Not Hadamard: {shape}."),
     };
     let pairs_all = (n as u64) * (n as u64).saturating_sub(1) / 2;
     // With erased entries the pairs were counted with ? as +1, which says nothing: not listed.
@@ -737,7 +746,7 @@ fn Verdict(
     let placeholder = (o.erasures > 0).then_some(" (with every ? read as +1)");
     view! {
         <p class="headline">{headline}</p>
-        {(!o.hadamard).then(|| view! { <ul class="reasons">{reasons}{erased}</ul> })}
+        {(o.verdict != diagnose::Verdict::Hadamard).then(|| view! { <ul class="reasons">{reasons}{erased}</ul> })}
         {o.completion.clone().map(|c| view! { <p>{c}</p> })}
         {fix}
         <dl class="facts">

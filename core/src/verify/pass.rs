@@ -34,6 +34,7 @@ impl PairTally {
         }
     }
     /// An empty tally with the same cap and stopping rule, for one thread's part of the work.
+    #[cfg(not(target_arch = "wasm32"))]
     pub(super) fn empty_like(&self) -> PairTally {
         PairTally {
             stop_at_first: self.stop_at_first,

@@ -12,9 +12,11 @@ use axum::extract::{Path, Query, State};
 use axum::http::{header, HeaderMap, HeaderValue, StatusCode};
 use axum::response::IntoResponse;
 use axum::Json;
+use hadamard_core::diagnose::{Diagnosis, Verdict};
 use hadamard_core::formats::{self, Format, ReadOptions, WriteFormat};
 use hadamard_core::json::{completion_json, repair_json};
 use hadamard_core::repair::Completion;
+use hadamard_core::verify::Report;
 use http_body_util::{BodyExt, LengthLimitError, Limited};
 use serde_json::{json, Value};
 use std::collections::HashMap;
@@ -109,41 +111,7 @@ pub async fn upload(
             )
                 .into_response())
         }
-        Ok(UploadOutcome::NotHadamard(report, fix)) => {
-            let mut body = serde_json::to_value(&*report).unwrap_or(Value::Null);
-            if let Value::Object(o) = &mut body {
-                o.insert("error".into(), json!(not_hadamard_message(&report)));
-                o.insert("failing_pairs_index_base".into(), json!(0));
-                o.insert(
-                    "repair".into(),
-                    fix.as_deref().map_or(Value::Null, repair_json),
-                );
-            }
-            Err(ApiError {
-                status: StatusCode::UNPROCESSABLE_ENTITY,
-                body,
-            })
-        }
-        Ok(UploadOutcome::HasErasures {
-            order,
-            erasures,
-            completion,
-        }) => {
-            let erased = erasures.len();
-            let what = match &completion.outcome {
-                Completion::Unique { id, .. } => format!("orthogonality fixes them: the one completion has id {id}; upload the completed matrix to store it"),
-                Completion::None => "no way of filling them gives a Hadamard matrix".into(),
-                Completion::Several { .. } => "they admit several completions".into(),
-                Completion::Undecided { .. } => "whether they can be completed was not settled".into(),
-            };
-            Err(ApiError::new(
-                StatusCode::UNPROCESSABLE_ENTITY,
-                format!("incomplete: the matrix has {erased} erased entries (?), and only complete ±1 matrices are stored; {what}"),
-            )
-            .with("order", order)
-            .with("erased_entries", erased)
-            .with("completion", completion_json(&completion, &erasures)))
-        }
+        Ok(UploadOutcome::Refused { report, diagnosis }) => Err(refusal(&report, &diagnosis)),
         Err(UploadError::Malformed(p)) if p.over_max_order => Err(ApiError::new(
             StatusCode::PAYLOAD_TOO_LARGE,
             format!(
@@ -233,7 +201,45 @@ async fn read_upload(
     }
 }
 
-fn not_hadamard_message(r: &hadamard_core::verify::Report) -> String {
+/// The 422 answer to an upload that is not stored, from core's verdict: `incomplete` with what
+/// the erased entries can be, or `not_hadamard` with the report and the wrong signs found.
+fn refusal(report: &Report, d: &Diagnosis) -> ApiError {
+    let (status, verdict) = (StatusCode::UNPROCESSABLE_ENTITY, json!(d.verdict));
+    match (d.verdict, &d.completion) {
+        (Verdict::Incomplete, Some(completion)) => {
+            let erased = d.erasures.len();
+            let what = match &completion.outcome {
+                Completion::Unique { id, .. } => format!("orthogonality fixes them: the one completion has id {id}; upload the completed matrix to store it"),
+                Completion::None => "no way of filling them gives a Hadamard matrix".into(),
+                Completion::Several { .. } => "they admit several completions".into(),
+                Completion::Undecided { .. } => "whether they can be completed was not settled".into(),
+            };
+            ApiError::new(
+                status,
+                format!("incomplete: the matrix has {erased} erased entries (?), and only complete ±1 matrices are stored; {what}"),
+            )
+            .with("verdict", verdict)
+            .with("order", report.order)
+            .with("erased_entries", erased)
+            .with("completion", completion_json(completion, &d.erasures))
+        }
+        _ => {
+            let mut body = serde_json::to_value(report).unwrap_or(Value::Null);
+            if let Value::Object(o) = &mut body {
+                o.insert("error".into(), json!(not_hadamard_message(report)));
+                o.insert("verdict".into(), verdict);
+                o.insert("failing_pairs_index_base".into(), json!(0));
+                o.insert(
+                    "repair".into(),
+                    d.repair.as_ref().map_or(Value::Null, repair_json),
+                );
+            }
+            ApiError { status, body }
+        }
+    }
+}
+
+fn not_hadamard_message(r: &Report) -> String {
     if r.order != r.cols {
         format!(
             "not a Hadamard matrix: it is {}×{}, not square",
@@ -253,6 +259,7 @@ fn not_hadamard_message(r: &hadamard_core::verify::Report) -> String {
 fn upload_json(ing: &Ingested) -> Value {
     let r = &ing.record;
     json!({
+        "verdict": Verdict::Hadamard,
         "id": r.id,
         "url": format!("/m/{}", r.id),
         "api_url": format!("/api/matrices/{}", r.id),

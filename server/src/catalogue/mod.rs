@@ -15,8 +15,9 @@ pub mod seed;
 use crate::store::matrices::{self, MatrixRecord, Origin};
 use crate::store::{Store, StoreError};
 use crate::time::now_rfc3339;
+use hadamard_core::diagnose::{diagnose, Diagnosis};
 use hadamard_core::formats::{self, ParseError, ReadOptions};
-use hadamard_core::repair::{self, CompletionReport, SignRepair};
+use hadamard_core::repair;
 use hadamard_core::verify::{self, Report, Verified};
 use hadamard_core::{route, Matrix};
 use std::collections::{HashMap, VecDeque};
@@ -150,37 +151,35 @@ impl Catalogue {
     /// Parses, verifies and (when Hadamard) stores an upload.
     pub fn upload(&self, bytes: &[u8], opts: &ReadOptions) -> Result<UploadOutcome, UploadError> {
         let parsed = formats::read(bytes, opts).map_err(UploadError::Malformed)?;
-        if !parsed.erasures.is_empty() {
-            // Nothing incomplete is stored, but the answer says whether it can be completed.
-            let limits = repair::CompletionLimits {
-                max_erasures: UPLOAD_MAX_ERASURES,
-                ..repair::CompletionLimits::default()
-            };
-            let completion = repair::complete(&parsed.matrix, &parsed.erasures, limits);
-            return Ok(UploadOutcome::HasErasures {
-                order: parsed.matrix.rows(),
-                erasures: parsed.erasures,
-                completion: Box::new(completion),
-            });
-        }
-        let matrix = parsed.matrix;
-        match verify::certify(matrix.clone()) {
-            Err(report) => {
-                let fix = repair::wrong_signs(&matrix, &report).map(Box::new);
-                Ok(UploadOutcome::NotHadamard(report, fix))
+        let report = if parsed.erasures.is_empty() {
+            match verify::certify(parsed.matrix.clone()) {
+                Ok(v) => {
+                    let ingested = self
+                        .ingest(
+                            &v,
+                            Provenance::Uploaded {
+                                format: parsed.format.name().to_owned(),
+                            },
+                        )
+                        .map_err(UploadError::Store)?;
+                    return Ok(UploadOutcome::Stored(Box::new(ingested)));
+                }
+                Err(report) => report,
             }
-            Ok(v) => {
-                let ingested = self
-                    .ingest(
-                        &v,
-                        Provenance::Uploaded {
-                            format: parsed.format.name().to_owned(),
-                        },
-                    )
-                    .map_err(UploadError::Store)?;
-                Ok(UploadOutcome::Stored(Box::new(ingested)))
-            }
-        }
+        } else {
+            Box::new(verify::verify(&parsed.matrix))
+        };
+        // Nothing incomplete or failing is stored, but the answer says what the erased entries
+        // can be, or which wrong signs explain the failure: the verdict rule of every front end.
+        let limits = repair::CompletionLimits {
+            max_erasures: UPLOAD_MAX_ERASURES,
+            ..repair::CompletionLimits::default()
+        };
+        let diagnosis = diagnose(&parsed.matrix, &parsed.erasures, &report, limits);
+        Ok(UploadOutcome::Refused {
+            report,
+            diagnosis: Box::new(diagnosis),
+        })
     }
 
     /// The catalogue's own matrix of order n, built, verified and stored on first request.
@@ -288,13 +287,11 @@ pub fn certify_stored(id: &str, n: usize, blob: &[u8]) -> Result<Verified, Strin
 /// The answer to an upload that could be read.
 pub enum UploadOutcome {
     Stored(Box<Ingested>),
-    /// Not Hadamard, with the wrong signs that explain it when there are.
-    NotHadamard(Box<Report>, Option<Box<SignRepair>>),
-    /// Erased entries, with what they can be.
-    HasErasures {
-        order: usize,
-        erasures: Vec<(usize, usize)>,
-        completion: Box<CompletionReport>,
+    /// Not stored: erased entries (with what they can be) or not Hadamard (with the wrong
+    /// signs that explain it when there are), as [`diagnose`] decided from the report.
+    Refused {
+        report: Box<Report>,
+        diagnosis: Box<Diagnosis>,
     },
 }
 

@@ -6,8 +6,9 @@
 
 use super::input::{read_input, InputArgs, InputError};
 use super::progress::Spinner;
+use hadamard_core::diagnose::{diagnose, Diagnosis, Verdict};
 use hadamard_core::json;
-use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
+use hadamard_core::repair::{Axis, Completion, CompletionLimits, Proof};
 use hadamard_core::verify::{self, Report};
 use std::process::ExitCode;
 use std::time::Instant;
@@ -65,11 +66,15 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             parsed.erasures.len()
         ))
     });
-    let follow = json::follow_up(&parsed.matrix, &parsed.erasures, &report);
+    let follow = diagnose(
+        &parsed.matrix,
+        &parsed.erasures,
+        &report,
+        CompletionLimits::default(),
+    );
     if let Some(s) = spin {
         s.finish();
     }
-    let hadamard = follow.hadamard;
 
     if args.json {
         let v = json::verification(
@@ -82,43 +87,37 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
     } else {
         print_human(
             &report,
-            hadamard,
+            &follow,
             parsed.format.name(),
             elapsed.as_secs_f64(),
-            follow.repair.as_ref(),
-            follow.completion.as_ref(),
         );
     }
-    if hadamard {
+    if follow.is_hadamard() {
         ExitCode::SUCCESS
     } else {
         ExitCode::from(1)
     }
 }
 
-fn print_human(
-    r: &Report,
-    hadamard: bool,
-    format: &str,
-    secs: f64,
-    fix: Option<&SignRepair>,
-    completion: Option<&CompletionReport>,
-) {
+fn print_human(r: &Report, d: &Diagnosis, format: &str, secs: f64) {
     let shape = if r.order == r.cols {
         format!("order {}", r.order)
     } else {
         format!("{}×{}", r.order, r.cols)
     };
-    let erased = completion.map_or(0, |c| c.erased);
-    if erased > 0 {
-        println!("incomplete: {erased} entries erased (?), {shape}.");
-    } else if hadamard {
-        println!(
+    let (fix, completion) = (d.repair.as_ref(), d.completion.as_ref());
+    match d.verdict {
+        Verdict::Incomplete => println!(
+            "incomplete: {} entries erased (?), {shape}.",
+            d.erasures.len()
+        ),
+        Verdict::Hadamard => println!(
             "Hadamard: {shape}, every pair of rows is orthogonal (H·Hᵀ = {}·I).",
             r.order
-        );
-    } else {
-        println!("not Hadamard: {shape}.");
+        ),
+        Verdict::NotHadamard => println!("not Hadamard: {shape}."),
+    }
+    if d.verdict == Verdict::NotHadamard {
         for f in &r.failures {
             match f {
                 verify::Failure::NotSquare => println!("  it is not square: {} rows, {} columns", r.order, r.cols),
