@@ -9,6 +9,8 @@
 //! factorization algorithm", BIT 20, 1980 \[recalled\]) on what is left, each factor confirmed
 //! prime.
 
+use num_integer::gcd;
+
 /// The bases that make Miller–Rabin deterministic on all of `u64`.
 const MR_BASES: [u64; 12] = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37];
 
@@ -96,13 +98,6 @@ fn iroot(n: u64, k: u32) -> u64 {
         r += 1;
     }
     r
-}
-
-fn gcd(mut a: u64, mut b: u64) -> u64 {
-    while b != 0 {
-        (a, b) = (b, a % b);
-    }
-    a
 }
 
 /// A nontrivial factor of the odd composite n, by Brent's variant of Pollard's rho.

@@ -25,6 +25,7 @@
 
 use super::Search;
 use crate::construct::sequences::{to_text, GsQuadruple, Williamson};
+use num_integer::gcd;
 use rayon::prelude::*;
 use std::sync::{Arc, OnceLock};
 
@@ -114,13 +115,6 @@ impl std::fmt::Display for ShapeError {
 }
 
 impl std::error::Error for ShapeError {}
-
-fn gcd(mut a: usize, mut b: usize) -> usize {
-    while b != 0 {
-        (a, b) = (b, a % b);
-    }
-    a
-}
 
 /// The group ⟨g⟩ of units mod v, sorted.
 pub fn multiplier_group(v: usize, g: usize) -> Vec<usize> {

@@ -27,6 +27,7 @@
 
 use super::Search;
 use crate::construct::sequences::{to_text, Williamson};
+use num_integer::gcd;
 use rayon::prelude::*;
 use std::sync::OnceLock;
 
@@ -335,14 +336,6 @@ fn is_leader(m: usize, bits: u64) -> bool {
     (2..=(m - 1) / 2)
         .filter(|&k| gcd(k, m) == 1)
         .all(|k| multiply(m, bits, k) >= bits)
-}
-
-fn gcd(a: usize, b: usize) -> usize {
-    if b == 0 {
-        a
-    } else {
-        gcd(b, a % b)
-    }
 }
 
 /// The free bits of a normalised symmetric row.
