@@ -112,62 +112,39 @@ fn the_verdict_is_the_same_through_core_the_cli_and_the_api() {
     // Erased +1 entries: with ? read as +1 the check passes, and the verdict is still
     // "incomplete", not "hadamard".
     let erased_plus: Vec<(usize, usize)> = plus.iter().copied().step_by(11).collect();
-    let cases: Vec<(&str, String, Said)> = vec![
-        (
-            "complete",
-            h.clone(),
-            Said {
-                verdict: "hadamard".into(),
-                repair: None,
-                completion: None,
-            },
-        ),
+    let said = |verdict: &str, repair: Option<&[(usize, usize)]>, completed: bool| Said {
+        verdict: verdict.into(),
+        repair: repair.map(|e| (e.to_vec(), id.clone())),
+        completion: completed.then(|| ("unique".to_string(), Some(id.clone()))),
+    };
+    let cases = [
+        ("complete", h.clone(), said("hadamard", None, false)),
         (
             "one wrong sign",
             damaged(&h, &one, &[]),
-            Said {
-                verdict: "not_hadamard".into(),
-                repair: Some((one.clone(), id.clone())),
-                completion: None,
-            },
+            said("not_hadamard", Some(&one), false),
         ),
         (
             "two wrong signs",
             damaged(&h, &two, &[]),
-            Said {
-                verdict: "not_hadamard".into(),
-                repair: Some((two.clone(), id.clone())),
-                completion: None,
-            },
+            said("not_hadamard", Some(&two), false),
         ),
         (
             "erased −1 entries",
             damaged(&h, &[], &erased_minus),
-            Said {
-                verdict: "incomplete".into(),
-                repair: None,
-                completion: Some(("unique".into(), Some(id.clone()))),
-            },
+            said("incomplete", None, true),
         ),
         (
             "erased +1 entries",
             damaged(&h, &[], &erased_plus),
-            Said {
-                verdict: "incomplete".into(),
-                repair: None,
-                completion: Some(("unique".into(), Some(id.clone()))),
-            },
+            said("incomplete", None, true),
         ),
+        // Order 6 has no Hadamard matrix (references.md#r1-impossible-orders), and no few
+        // wrong signs explain an all-ones matrix.
         (
-            // Order 6 has no Hadamard matrix (references.md#r1-impossible-orders), and no
-            // few wrong signs explain an all-ones matrix.
             "impossible order",
             "++++++\n".repeat(6),
-            Said {
-                verdict: "not_hadamard".into(),
-                repair: None,
-                completion: None,
-            },
+            said("not_hadamard", None, false),
         ),
     ];
     assert!(erased_minus.len() >= 10 && erased_plus.len() >= 10);
