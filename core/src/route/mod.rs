@@ -21,6 +21,7 @@ mod advice;
 mod build;
 pub mod literature;
 mod plan;
+mod step;
 #[cfg(test)]
 mod tests;
 
@@ -33,10 +34,11 @@ pub use build::{
     RECIPE_FORMAT,
 };
 pub use plan::{Planner, SeedIndex};
+pub use step::{
+    method_name, Construction, Family, GolayPart, SeedData, SeedLeaf, Step, YamadaCase,
+};
 
 use serde::{Deserialize, Serialize};
-use serde_json::Value;
-use std::collections::BTreeMap;
 
 /// What is known about an order.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
@@ -54,7 +56,8 @@ pub enum Status {
     Uncovered,
 }
 
-/// A construction, or a kind of leaf, in a route tree.
+/// The name of a [`Construction`] (its `method` in a recipe): a plain enum for ranking, filters
+/// and errors. The parameters live in [`Construction`].
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Method {
@@ -107,27 +110,6 @@ pub enum Method {
     TurynToBase,
     /// Turyn's Williamson matrices of order (q+1)/2, q ≡ 1 mod 4 (Turyn 1972).
     TurynWilliamson,
-}
-
-/// One node of a route tree.
-///
-/// For a node that yields a matrix, `order` is its order. For a node that yields sequence data
-/// (Seed, Published, the Golay, base and Turyn steps, TurynWilliamson) `order` is the index of
-/// the family: the T-length t, the Williamson order m, the Goethals–Seidel length v, the Golay
-/// length g, the Turyn parameter n, or the longer length n+p of base sequences; `params.kind`
-/// names the family.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct Step {
-    pub method: Method,
-    pub order: u64,
-    /// The parameters: q, k, t, w, part, kind, and for seed leaves the source, the provenance
-    /// and the sequences themselves (so a recipe replays without the catalogue).
-    pub params: BTreeMap<String, Value>,
-    /// The published reference for this step.
-    pub reference: String,
-    pub children: Vec<Step>,
-    /// True when this node and everything below it can be built by this program now.
-    pub buildable: bool,
 }
 
 /// A whole route for an order, with what ranks it.

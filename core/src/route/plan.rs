@@ -1,13 +1,13 @@
 //! The planner: every route this program knows for an order, memoised per order.
 
 use super::literature::{self, Verdict};
+use super::step::{Construction, Family, GolayPart, SeedData, SeedLeaf, YamadaCase};
 use super::{order_possible, Method, OrderInfo, Route, Status, Step, MAX_BUILD_ORDER};
 use crate::arith::{divisors, prime_power};
 use crate::construct::sequences::{
-    to_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
+    BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
 };
 use crate::seed::{self, Entry};
-use serde_json::{json, Value};
 use std::collections::{BTreeMap, BTreeSet, HashMap};
 
 /// References, one place each.
@@ -94,34 +94,13 @@ impl SeedIndex {
     }
 }
 
-fn seq_params(
-    kind: &str,
-    e: &Entry<impl Sized>,
-    seqs: &[(&str, &[i8])],
-) -> Vec<(&'static str, Value)> {
-    let mut p = vec![
-        ("kind", json!(kind)),
-        ("source", json!(e.source)),
-        ("provenance", json!(e.provenance)),
-    ];
-    for (name, s) in seqs {
-        p.push((leak_key(name), json!(to_text(s))));
-    }
-    p
-}
-
-/// Parameter names are a small fixed set; this maps them to `'static` without allocation.
-fn leak_key(name: &str) -> &'static str {
-    match name {
-        "a" => "a",
-        "b" => "b",
-        "c" => "c",
-        "d" => "d",
-        "t1" => "t1",
-        "t2" => "t2",
-        "t3" => "t3",
-        _ => "t4",
-    }
+/// A seed leaf for a catalogue entry.
+fn seed_leaf(e: &Entry<impl Sized>, data: SeedData) -> Construction {
+    Construction::Seed(SeedLeaf {
+        source: e.source.clone(),
+        provenance: e.provenance.clone(),
+        data,
+    })
 }
 
 /// The published source for Williamson matrices of odd order m, when the literature has them.
@@ -151,63 +130,12 @@ fn seed_reference(provenance: &str, paper: Option<&str>) -> String {
     }
 }
 
-/// Makes a node; `buildable` follows from the method and the children.
-pub(crate) fn step(
-    method: Method,
-    order: u64,
-    params: Vec<(&str, Value)>,
-    reference: &str,
-    children: Vec<Step>,
-) -> Step {
-    let params: BTreeMap<String, Value> = params
-        .into_iter()
-        .map(|(k, v)| (k.to_string(), v))
-        .collect();
-    let buildable =
-        super::build::implemented(method, &params) && children.iter().all(|c| c.buildable);
-    Step {
-        method,
-        order,
-        params,
-        reference: reference.to_string(),
-        children,
-        buildable,
-    }
-}
-
-fn param_u64(s: &Step, key: &str) -> u64 {
-    s.params.get(key).and_then(Value::as_u64).unwrap_or(0)
-}
-
-/// True when the node yields a matrix (as opposed to sequence data).
-fn yields_matrix(m: Method) -> bool {
-    matches!(
-        m,
-        Method::Sylvester
-            | Method::PaleyOne
-            | Method::PaleyTwo
-            | Method::Kronecker
-            | Method::ConferenceProduct
-            | Method::TwinPrimePower
-            | Method::Williamson
-            | Method::GoethalsSeidel
-            | Method::TSequences
-            | Method::CooperWallis
-            | Method::SkewDoubling
-            | Method::Miyamoto
-            | Method::Yamada
-            | Method::Literature
-    )
-}
-
 fn dense_factor(s: &Step) -> u64 {
-    match s.method {
-        Method::Sylvester => 1,
-        Method::Kronecker => s.children.iter().map(dense_factor).max().unwrap_or(1),
-        Method::ConferenceProduct => {
-            (param_u64(s, "q") + 1).max(s.children.iter().map(dense_factor).max().unwrap_or(1))
-        }
-        Method::SkewDoubling => s.children.iter().map(dense_factor).max().unwrap_or(1),
+    let below = || s.children.iter().map(dense_factor).max().unwrap_or(1);
+    match &s.construction {
+        Construction::Sylvester { .. } => 1,
+        Construction::Kronecker {} | Construction::SkewDoubling {} => below(),
+        Construction::ConferenceProduct { q } => (q + 1).max(below()),
         _ => s.order,
     }
 }
@@ -216,57 +144,57 @@ fn cost(s: &Step) -> f64 {
     let below: f64 = s
         .children
         .iter()
-        .filter(|c| yields_matrix(c.method))
+        .filter(|c| c.construction.yields_matrix())
         .map(cost)
         .sum();
     let n = s.order as f64;
-    let own = match s.method {
-        Method::Sylvester | Method::Kronecker | Method::SkewDoubling => n * n / 64.0,
-        Method::ConferenceProduct => 2.0 * n * n / 64.0 + n * n / 8.0,
-        _ if yields_matrix(s.method) => n * n,
+    let own = match &s.construction {
+        Construction::Sylvester { .. }
+        | Construction::Kronecker {}
+        | Construction::SkewDoubling {} => n * n / 64.0,
+        Construction::ConferenceProduct { .. } => 2.0 * n * n / 64.0 + n * n / 8.0,
+        c if c.yields_matrix() => n * n,
         _ => 0.0,
     };
     own + below
 }
 
 fn ingredients(s: &Step, out: &mut BTreeSet<String>) {
-    let q = param_u64(s, "q");
-    match s.method {
-        Method::Sylvester => {
+    match &s.construction {
+        Construction::Sylvester { .. } => {
             out.insert(format!("Sylvester's H({})", s.order));
         }
-        Method::PaleyOne
-        | Method::PaleyTwo
-        | Method::ConferenceProduct
-        | Method::Miyamoto
-        | Method::Yamada
-        | Method::TurynWilliamson => {
+        Construction::PaleyOne { q }
+        | Construction::PaleyTwo { q }
+        | Construction::ConferenceProduct { q }
+        | Construction::Miyamoto { q }
+        | Construction::Yamada { q, .. }
+        | Construction::TurynWilliamson { q } => {
             out.insert(format!("the field GF({q})"));
         }
-        Method::TwinPrimePower => {
+        Construction::TwinPrimePower { q } => {
             out.insert(format!("the fields GF({q}) and GF({})", q + 2));
         }
-        Method::Seed => {
-            let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
-            let src = s.params.get("source").and_then(Value::as_str).unwrap_or("");
+        Construction::Seed(leaf) => {
+            let kind = leaf.data.family();
             out.insert(format!(
-                "{} of {} {} (seed catalogue {src})",
-                family(kind),
-                index_name(kind),
-                s.order
+                "{} of {} {} (seed catalogue {})",
+                kind.words(),
+                kind.index_name(),
+                s.order,
+                leaf.source
             ));
         }
-        Method::Published => {
-            let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
+        Construction::Published { kind } => {
             out.insert(format!(
                 "{} of {} {} (published: {})",
-                family(kind),
-                index_name(kind),
+                kind.words(),
+                kind.index_name(),
                 s.order,
                 s.reference
             ));
         }
-        Method::Literature => {
+        Construction::Literature { .. } => {
             out.insert(format!(
                 "a Hadamard matrix of order {} (literature: {})",
                 s.order, s.reference
@@ -279,39 +207,24 @@ fn ingredients(s: &Step, out: &mut BTreeSet<String>) {
     }
 }
 
-fn family(kind: &str) -> &'static str {
-    match kind {
-        "williamson" => "Williamson matrices",
-        "gs" => "a Goethals–Seidel quadruple",
-        "tseq" => "T-sequences",
-        "base" => "base sequences",
-        "turyn" => "Turyn-type sequences",
-        _ => "a Golay pair",
-    }
-}
-
-fn index_name(kind: &str) -> &'static str {
-    match kind {
-        "williamson" => "order",
-        "turyn" => "parameter n =",
-        _ => "length",
-    }
-}
-
 fn is_skew(s: &Step) -> bool {
-    matches!(s.method, Method::PaleyOne | Method::SkewDoubling) || gs_first_block_skew(s)
+    matches!(
+        s.construction,
+        Construction::PaleyOne { .. } | Construction::SkewDoubling {}
+    ) || gs_first_block_skew(s)
 }
 
 /// True for a Goethals–Seidel step whose first sequence is skew-type (a₀ = +1, a₋ₓ = −aₓ):
 /// its matrix is then skew-Hadamard, the case Goethals and Seidel built their array for.
 fn gs_first_block_skew(s: &Step) -> bool {
-    s.method == Method::GoethalsSeidel
-        && s.children
-            .first()
-            .and_then(|c| c.params.get("a"))
-            .and_then(Value::as_str)
-            .and_then(|t| crate::construct::sequences::from_text(t).ok())
-            .is_some_and(|a| crate::construct::sequences::is_skew_type(&a))
+    matches!(s.construction, Construction::GoethalsSeidel { .. })
+        && s.children.first().is_some_and(|c| match &c.construction {
+            Construction::Seed(SeedLeaf {
+                data: SeedData::Gs(g),
+                ..
+            }) => crate::construct::sequences::is_skew_type(&g.a[0]),
+            _ => false,
+        })
 }
 
 /// Turns a matrix-yielding tree into a ranked route.
@@ -319,7 +232,7 @@ pub(crate) fn route(tree: Step) -> Route {
     let mut ing = BTreeSet::new();
     ingredients(&tree, &mut ing);
     Route {
-        method: tree.method,
+        method: tree.method(),
         buildable: tree.buildable,
         cost: cost(&tree),
         largest_dense_factor: dense_factor(&tree),
@@ -525,10 +438,11 @@ impl Planner {
             return out;
         }
         if n.is_power_of_two() {
-            out.push(route(step(
-                Method::Sylvester,
+            out.push(route(Step::new(
+                Construction::Sylvester {
+                    k: n.trailing_zeros(),
+                },
                 n,
-                vec![("k", json!(n.trailing_zeros()))],
                 refs::SYLVESTER,
                 vec![],
             )));
@@ -540,20 +454,18 @@ impl Planner {
             out.push(route(t));
         }
         if let Some(q) = Some(n / 2 - 1).filter(|&q| n % 8 == 4 && prime_power(q).is_some()) {
-            out.push(route(step(
-                Method::PaleyTwo,
+            out.push(route(Step::new(
+                Construction::PaleyTwo { q },
                 n,
-                vec![("q", json!(q))],
                 refs::PALEY,
                 vec![],
             )));
         }
         let s = isqrt(n);
         if s * s == n && s >= 4 && prime_power(s - 1).is_some() && prime_power(s + 1).is_some() {
-            out.push(route(step(
-                Method::TwinPrimePower,
+            out.push(route(Step::new(
+                Construction::TwinPrimePower { q: s - 1 },
                 n,
-                vec![("q", json!(s - 1))],
                 refs::TWIN,
                 vec![],
             )));
@@ -568,10 +480,9 @@ impl Planner {
                 continue;
             }
             if let (Some(ra), Some(rb)) = (self.best(a), self.best(b)) {
-                out.push(route(step(
-                    Method::Kronecker,
+                out.push(route(Step::new(
+                    Construction::Kronecker {},
                     n,
-                    vec![],
                     refs::KRONECKER,
                     vec![ra.tree, rb.tree],
                 )));
@@ -584,10 +495,9 @@ impl Planner {
                 continue;
             }
             if let Some(rh) = self.best(h) {
-                out.push(route(step(
-                    Method::ConferenceProduct,
+                out.push(route(Step::new(
+                    Construction::ConferenceProduct { q: c - 1 },
                     n,
-                    vec![("q", json!(c - 1))],
                     refs::CONFERENCE,
                     vec![rh.tree],
                 )));
@@ -595,10 +505,9 @@ impl Planner {
         }
         let quarter = n / 4;
         if let Some(w) = self.williamson_source(quarter) {
-            out.push(route(step(
-                Method::Williamson,
+            out.push(route(Step::new(
+                Construction::Williamson { m: quarter },
                 n,
-                vec![("m", json!(quarter))],
                 refs::WILLIAMSON,
                 vec![w],
             )));
@@ -607,10 +516,9 @@ impl Planner {
             out.push(route(gs));
         }
         if let Some(t) = self.t_source(quarter) {
-            out.push(route(step(
-                Method::TSequences,
+            out.push(route(Step::new(
+                Construction::TSequences { t: quarter },
                 n,
-                vec![("t", json!(quarter))],
                 refs::T_SEQUENCES,
                 vec![t],
             )));
@@ -624,20 +532,18 @@ impl Planner {
             let (Some(ts), Some(ws)) = (self.t_source(t), self.williamson_source(w)) else {
                 continue;
             };
-            out.push(route(step(
-                Method::CooperWallis,
+            out.push(route(Step::new(
+                Construction::CooperWallis { t, w },
                 n,
-                vec![("t", json!(t)), ("w", json!(w))],
                 refs::COOPER_WALLIS,
                 vec![ts, ws],
             )));
         }
         if n.is_multiple_of(8) {
             if let Some(h) = self.skew_route(n / 2) {
-                out.push(route(step(
-                    Method::SkewDoubling,
+                out.push(route(Step::new(
+                    Construction::SkewDoubling {},
                     n,
-                    vec![],
                     refs::SKEW_DOUBLING,
                     vec![h],
                 )));
@@ -649,10 +555,9 @@ impl Planner {
                 Some(e) => (&e.note, &e.reference),
                 None => (&rule.note, &rule.reference),
             };
-            out.push(route(step(
-                Method::Literature,
+            out.push(route(Step::new(
+                Construction::Literature { note: note.clone() },
                 n,
-                vec![("note", json!(note))],
                 reference,
                 vec![],
             )));
@@ -665,15 +570,8 @@ impl Planner {
     }
 
     fn paley_one(&self, n: u64) -> Option<Step> {
-        (n >= 4 && n.is_multiple_of(4) && prime_power(n - 1).is_some()).then(|| {
-            step(
-                Method::PaleyOne,
-                n,
-                vec![("q", json!(n - 1))],
-                refs::PALEY,
-                vec![],
-            )
-        })
+        (n >= 4 && n.is_multiple_of(4) && prime_power(n - 1).is_some())
+            .then(|| Step::new(Construction::PaleyOne { q: n - 1 }, n, refs::PALEY, vec![]))
     }
 
     /// The Goethals–Seidel array on the seed quadruple of length n/4, if the catalogue has one.
@@ -684,18 +582,15 @@ impl Planner {
             .gs
             .get(&quarter)
             .filter(|_| n.is_multiple_of(4))?;
-        let [a, b, c, d] = &e.data.a;
-        let leaf = step(
-            Method::Seed,
+        let leaf = Step::new(
+            seed_leaf(e, SeedData::Gs(e.data.clone())),
             quarter,
-            seq_params("gs", e, &[("a", a), ("b", b), ("c", c), ("d", d)]),
             &e.provenance,
             vec![],
         );
-        Some(step(
-            Method::GoethalsSeidel,
+        Some(Step::new(
+            Construction::GoethalsSeidel { v: quarter },
             n,
-            vec![("v", json!(quarter))],
             refs::GOETHALS_SEIDEL,
             vec![leaf],
         ))
@@ -712,10 +607,9 @@ impl Planner {
                 .then(|| self.skew_route(h / 2))
                 .flatten()
                 .map(|c| {
-                    step(
-                        Method::SkewDoubling,
+                    Step::new(
+                        Construction::SkewDoubling {},
                         h,
-                        vec![],
                         refs::SKEW_DOUBLING,
                         vec![c],
                     )
@@ -730,10 +624,9 @@ impl Planner {
         if q % 4 == 1 && prime_power(q).is_some() {
             let direct = self.best(q - 1);
             if let Some(h) = &direct {
-                out.push(route(step(
-                    Method::Miyamoto,
+                out.push(route(Step::new(
+                    Construction::Miyamoto { q },
                     n,
-                    vec![("q", json!(q))],
                     refs::MIYAMOTO,
                     vec![h.tree.clone()],
                 )));
@@ -743,18 +636,16 @@ impl Planner {
             // apart only when it is not already the best route to q − 1.
             if q % 8 == 1 {
                 if let (Some(two), Some(half)) = (self.best(2), self.best((q - 1) / 2)) {
-                    let doubled = step(
-                        Method::Kronecker,
+                    let doubled = Step::new(
+                        Construction::Kronecker {},
                         q - 1,
-                        vec![],
                         refs::KRONECKER,
                         vec![two.tree, half.tree],
                     );
                     if direct.as_ref().is_none_or(|d| d.tree != doubled) {
-                        out.push(route(step(
-                            Method::Miyamoto,
+                        out.push(route(Step::new(
+                            Construction::Miyamoto { q },
                             n,
-                            vec![("q", json!(q))],
                             refs::MIYAMOTO_YAMADA,
                             vec![doubled],
                         )));
@@ -767,10 +658,12 @@ impl Planner {
             .filter(|&q| q % 8 == 5 && prime_power(q).is_some())
         {
             if let Some(h) = self.skew_route((q + 3) / 2) {
-                out.push(route(step(
-                    Method::Yamada,
+                out.push(route(Step::new(
+                    Construction::Yamada {
+                        case: YamadaCase::Second,
+                        q,
+                    },
                     n,
-                    vec![("q", json!(q)), ("case", json!("ii"))],
                     refs::YAMADA,
                     vec![h],
                 )));
@@ -781,15 +674,9 @@ impl Planner {
     /// Williamson matrices of order m: from the seed catalogue, Turyn's family, or a paper.
     fn williamson_source(&self, m: u64) -> Option<Step> {
         if let Some(e) = self.seeds.williamson.get(&m) {
-            let d = &e.data;
-            return Some(step(
-                Method::Seed,
+            return Some(Step::new(
+                seed_leaf(e, SeedData::Williamson(e.data.clone())),
                 m,
-                seq_params(
-                    "williamson",
-                    e,
-                    &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
-                ),
                 &seed_reference(&e.provenance, williamson_paper(m)),
                 vec![],
             ));
@@ -797,10 +684,9 @@ impl Planner {
         let turyn =
             (m % 2 == 1 && m >= 3 && prime_power(2 * m - 1).is_some() && (2 * m - 1) % 4 == 1)
                 .then(|| {
-                    step(
-                        Method::TurynWilliamson,
+                    Step::new(
+                        Construction::TurynWilliamson { q: 2 * m - 1 },
                         m,
-                        vec![("q", json!(2 * m - 1))],
                         refs::TURYN_WILLIAMSON,
                         vec![],
                     )
@@ -809,10 +695,11 @@ impl Planner {
             return turyn;
         }
         if let Some(reference) = williamson_paper(m) {
-            return Some(step(
-                Method::Published,
+            return Some(Step::new(
+                Construction::Published {
+                    kind: Family::Williamson,
+                },
                 m,
-                vec![("kind", json!("williamson"))],
                 reference,
                 vec![],
             ));
@@ -827,32 +714,23 @@ impl Planner {
         }
         let mut cands: Vec<Step> = Vec::new();
         if let Some(e) = self.seeds.tseq.get(&t) {
-            let [a, b, c, d] = &e.data.t;
-            cands.push(step(
-                Method::Seed,
+            cands.push(Step::new(
+                seed_leaf(e, SeedData::Tseq(e.data.clone())),
                 t,
-                seq_params("tseq", e, &[("t1", a), ("t2", b), ("t3", c), ("t4", d)]),
                 &e.provenance,
                 vec![],
             ));
         }
         if let Some(e) = self.seeds.base.get(&t) {
-            let d = &e.data;
-            let leaf = step(
-                Method::Seed,
-                d.a.len() as u64,
-                seq_params(
-                    "base",
-                    e,
-                    &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
-                ),
+            let leaf = Step::new(
+                seed_leaf(e, SeedData::Base(e.data.clone())),
+                e.data.a.len() as u64,
                 &e.provenance,
                 vec![],
             );
-            cands.push(step(
-                Method::BaseToT,
+            cands.push(Step::new(
+                Construction::BaseToT {},
                 t,
-                vec![],
                 refs::BASE_TO_T,
                 vec![leaf],
             ));
@@ -860,23 +738,18 @@ impl Planner {
         if t % 3 == 2 {
             let n = (t + 1) / 3;
             let tt = if let Some(e) = self.seeds.turyn.get(&n) {
-                let d = &e.data;
-                Some(step(
-                    Method::Seed,
+                Some(Step::new(
+                    seed_leaf(e, SeedData::Turyn(e.data.clone())),
                     n,
-                    seq_params(
-                        "turyn",
-                        e,
-                        &[("a", &d.a), ("b", &d.b), ("c", &d.c), ("d", &d.d)],
-                    ),
                     &seed_reference(&e.provenance, turyn_paper(n)),
                     vec![],
                 ))
             } else if n.is_multiple_of(2) && n <= 38 {
-                Some(step(
-                    Method::Published,
+                Some(Step::new(
+                    Construction::Published {
+                        kind: Family::Turyn,
+                    },
                     n,
-                    vec![("kind", json!("turyn"))],
                     turyn_paper(n).unwrap_or(refs::TT_KNOWN),
                     vec![],
                 ))
@@ -884,35 +757,32 @@ impl Planner {
                 None
             };
             if let Some(tt) = tt {
-                let base = step(
-                    Method::TurynToBase,
+                let base = Step::new(
+                    Construction::TurynToBase { n },
                     2 * n - 1,
-                    vec![("n", json!(n))],
                     refs::TURYN_TO_BASE,
                     vec![tt],
                 );
-                cands.push(step(
-                    Method::BaseToT,
+                cands.push(Step::new(
+                    Construction::BaseToT {},
                     t,
-                    vec![],
                     refs::BASE_TO_T,
                     vec![base],
                 ));
             }
         }
         for (g, part) in [
-            (Some(t), "g"),
-            (t.checked_sub(1), "g+1"),
-            ((t % 2 == 1).then(|| (t - 1) / 2), "2g+1"),
+            (Some(t), GolayPart::G),
+            (t.checked_sub(1), GolayPart::GPlusOne),
+            ((t % 2 == 1).then(|| (t - 1) / 2), GolayPart::TwiceGPlusOne),
         ] {
             let Some(g) = g.filter(|&g| g >= 1) else {
                 continue;
             };
             if let Some(gs) = self.golay_source(g) {
-                cands.push(step(
-                    Method::GolayToT,
+                cands.push(Step::new(
+                    Construction::GolayToT { g, part },
                     t,
-                    vec![("g", json!(g)), ("part", json!(part))],
                     refs::GOLAY_TO_T,
                     vec![gs],
                 ));
@@ -929,14 +799,13 @@ impl Planner {
                 let (Some(a), Some(b)) = (self.golay_source(g1), self.golay_source(g2)) else {
                     continue;
                 };
-                let base = step(
-                    Method::GolayPairsToBase,
+                let base = Step::new(
+                    Construction::GolayPairsToBase { g1, g2 },
                     g1,
-                    vec![("g1", json!(g1)), ("g2", json!(g2))],
                     refs::GOLAY_PAIRS_TO_BASE,
                     vec![a, b],
                 );
-                let t_seq = step(Method::BaseToT, t, vec![], refs::BASE_TO_T, vec![base]);
+                let t_seq = Step::new(Construction::BaseToT {}, t, refs::BASE_TO_T, vec![base]);
                 let done = t_seq.buildable;
                 cands.push(t_seq);
                 if done {
@@ -947,7 +816,7 @@ impl Planner {
         cands.sort_by_key(|s| {
             (
                 !s.buildable,
-                s.method == Method::GolayToT && param_u64(s, "g") != t,
+                matches!(s.construction, Construction::GolayToT { g, .. } if g != t),
             )
         });
         let best = cands.into_iter().next();
@@ -962,18 +831,21 @@ impl Planner {
         }
         let mut found = None;
         if let Some(e) = self.seeds.golay.get(&g) {
-            let d = &e.data;
-            found = Some(step(
-                Method::Seed,
+            found = Some(Step::new(
+                seed_leaf(e, SeedData::Golay(e.data.clone())),
                 g,
-                seq_params("golay", e, &[("a", &d.a), ("b", &d.b)]),
                 &e.provenance,
                 vec![],
             ));
         }
         if found.is_none() && g.is_multiple_of(2) && g > 2 {
             if let Some(h) = self.golay_source(g / 2).filter(|h| h.buildable) {
-                found = Some(step(Method::GolayDoubling, g, vec![], refs::GOLAY, vec![h]));
+                found = Some(Step::new(
+                    Construction::GolayDoubling {},
+                    g,
+                    refs::GOLAY,
+                    vec![h],
+                ));
             }
         }
         if found.is_none() {
@@ -989,10 +861,9 @@ impl Planner {
                     self.golay_source(s),
                     self.golay_source(g / s).filter(|b| b.buildable),
                 ) {
-                    found = Some(step(
-                        Method::GolayProduct,
+                    found = Some(Step::new(
+                        Construction::GolayProduct {},
                         g,
-                        vec![],
                         refs::GOLAY_PRODUCT,
                         vec![a, b],
                     ));
@@ -1001,10 +872,11 @@ impl Planner {
             }
         }
         if found.is_none() && is_published_golay_length(g) {
-            found = Some(step(
-                Method::Published,
+            found = Some(Step::new(
+                Construction::Published {
+                    kind: Family::Golay,
+                },
                 g,
-                vec![("kind", json!("golay"))],
                 refs::GOLAY_LENGTHS,
                 vec![],
             ));
@@ -1015,7 +887,7 @@ impl Planner {
 }
 
 fn uses_only(s: &Step, only: &[Method]) -> bool {
-    (s.method == Method::Literature || only.contains(&s.method))
+    (s.method() == Method::Literature || only.contains(&s.method()))
         && s.children.iter().all(|c| uses_only(c, only))
 }
 

@@ -1,0 +1,627 @@
+//! The typed route step: one [`Construction`] variant per method, carrying its parameters.
+//!
+//! A route tree is made of [`Step`]s. Each names its construction with typed parameters (a
+//! prime power `q: u64`, a part of a Golay pair as an enum, a seed leaf's sequences as ±1
+//! vectors), so a node cannot be built from a misspelt or missing parameter: a recipe that has
+//! one is refused when it is read, with an error naming the step and the field.
+//!
+//! **The recipe format** (`hadamard-recipe/1`, [`super::RECIPE_FORMAT`]) is unchanged from
+//! when the parameters were a string map: a step is written
+//! `{"method", "order", "params", "reference", "children", "buildable"}` in that order, with
+//! `params` a JSON object whose keys are in alphabetical order. [`Construction`]'s serde
+//! attributes give `method` (the variant's snake_case name) and `params` (the variant's fields,
+//! declared in alphabetical order); [`Step`]'s own `Serialize`/`Deserialize` put the other
+//! fields between them. `tests/route_recipes.rs` holds the recipes and route trees an earlier
+//! version wrote and checks that each reads and writes back byte for byte.
+
+use super::Method;
+use crate::construct::sequences::{
+    from_text, to_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
+};
+use crate::field::MAX_Q;
+use serde::de::Error as _;
+use serde::ser::Error as _;
+use serde::{Deserialize, Deserializer, Serialize, Serializer};
+use serde_json::{Map, Value};
+
+/// One node of a route tree.
+///
+/// For a node that yields a matrix, `order` is its order. For a node that yields sequence data
+/// (seed and published leaves, the Golay, base and Turyn steps, Turyn's Williamson family)
+/// `order` is the index of the family: the T-length t, the Williamson order m, the
+/// Goethals–Seidel length v, the Golay length g, the Turyn parameter n, or the longer length
+/// n+p of base sequences.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Step {
+    /// What this node does, with its parameters.
+    pub construction: Construction,
+    pub order: u64,
+    /// The published reference for this step.
+    pub reference: String,
+    pub children: Vec<Step>,
+    /// True when this node and everything below it can be built by this program now.
+    pub buildable: bool,
+}
+
+impl Step {
+    /// A node; `buildable` follows from the construction and the children.
+    pub fn new(
+        construction: Construction,
+        order: u64,
+        reference: &str,
+        children: Vec<Step>,
+    ) -> Step {
+        let buildable = construction.implemented() && children.iter().all(|c| c.buildable);
+        Step {
+            construction,
+            order,
+            reference: reference.to_string(),
+            children,
+            buildable,
+        }
+    }
+
+    /// The construction's name.
+    pub fn method(&self) -> Method {
+        self.construction.method()
+    }
+
+    /// The parameters as the recipe writes them (`params`), keys in alphabetical order.
+    pub fn params(&self) -> Map<String, Value> {
+        self.construction.params()
+    }
+}
+
+/// A family of sequence data a leaf can hold (`kind` in the recipe).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Family {
+    /// Williamson matrices of odd order m.
+    Williamson,
+    /// A Goethals–Seidel quadruple of length v.
+    Gs,
+    /// T-sequences of length t.
+    Tseq,
+    /// Base sequences BS(n+p, n).
+    Base,
+    /// Turyn-type sequences TT(n).
+    Turyn,
+    /// A Golay pair of length g.
+    Golay,
+}
+
+impl Family {
+    /// The family in words.
+    pub fn words(self) -> &'static str {
+        match self {
+            Family::Williamson => "Williamson matrices",
+            Family::Gs => "a Goethals–Seidel quadruple",
+            Family::Tseq => "T-sequences",
+            Family::Base => "base sequences",
+            Family::Turyn => "Turyn-type sequences",
+            Family::Golay => "a Golay pair",
+        }
+    }
+
+    /// What a node's `order` counts for this family, in words.
+    pub fn index_name(self) -> &'static str {
+        match self {
+            Family::Williamson => "order",
+            Family::Turyn => "parameter n =",
+            _ => "length",
+        }
+    }
+}
+
+/// The sequences of a seed leaf.
+#[derive(Clone, Debug, PartialEq)]
+pub enum SeedData {
+    Williamson(Williamson),
+    Gs(GsQuadruple),
+    Tseq(TSequences),
+    Base(BaseSequences),
+    Turyn(TurynType),
+    Golay(GolayPair),
+}
+
+impl SeedData {
+    /// The family the data belongs to.
+    pub fn family(&self) -> Family {
+        match self {
+            SeedData::Williamson(_) => Family::Williamson,
+            SeedData::Gs(_) => Family::Gs,
+            SeedData::Tseq(_) => Family::Tseq,
+            SeedData::Base(_) => Family::Base,
+            SeedData::Turyn(_) => Family::Turyn,
+            SeedData::Golay(_) => Family::Golay,
+        }
+    }
+}
+
+/// A leaf holding sequence data from the seed catalogue; the recipe carries the sequences so
+/// it replays without the catalogue.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SeedLeaf {
+    /// Where in the seed catalogue the entry is (file and line).
+    pub source: String,
+    /// Who or what produced the data, how, and when.
+    pub provenance: String,
+    pub data: SeedData,
+}
+
+/// Which T-sequences a Golay pair of length g gives (`part` in the recipe).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub enum GolayPart {
+    /// Length g.
+    #[serde(rename = "g")]
+    G,
+    /// Length g + 1.
+    #[serde(rename = "g+1")]
+    GPlusOne,
+    /// Length 2g + 1.
+    #[serde(rename = "2g+1")]
+    TwiceGPlusOne,
+}
+
+/// Which of Yamada's theorems (`case` in the recipe); only the second is listed as its own
+/// method (the first is a case of Miyamoto's).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub enum YamadaCase {
+    /// q ≡ 5 mod 8 and a skew order (q+3)/2 give 4(q+2).
+    #[serde(rename = "ii")]
+    Second,
+}
+
+/// A construction with its parameters: one variant per method.
+///
+/// The fields of each variant are its recipe `params`, declared in alphabetical order (the
+/// order the recipe format writes them); [`Construction::method`] names the variant. The
+/// references are in `route::plan::refs`.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(
+    tag = "method",
+    content = "params",
+    rename_all = "snake_case",
+    deny_unknown_fields
+)]
+pub enum Construction {
+    /// H₂^{⊗k}: order 2^k (Sylvester 1867).
+    Sylvester { k: u32 },
+    /// Paley's first construction: q+1, q ≡ 3 mod 4 (Paley 1933).
+    PaleyOne { q: u64 },
+    /// Paley's second construction: 2(q+1), q ≡ 1 mod 4 (Paley 1933).
+    PaleyTwo { q: u64 },
+    /// H_a ⊗ H_b, the two children.
+    Kronecker {},
+    /// C⊗H + I⊗(K·H) with C Paley's symmetric conference matrix of order q+1, q ≡ 1 mod 4,
+    /// and H the child.
+    ConferenceProduct { q: u64 },
+    /// The twin prime power difference set over GF(q) × GF(q+2): (q+1)² (Stanton and Sprott
+    /// 1958).
+    TwinPrimePower { q: u64 },
+    /// Williamson's array on the child's Williamson matrices of order m: 4m (Williamson 1944).
+    Williamson { m: u64 },
+    /// The Goethals–Seidel array on the child's quadruple of length v: 4v (Goethals and
+    /// Seidel 1970).
+    GoethalsSeidel { v: u64 },
+    /// The child's T-sequences of length t in the Goethals–Seidel array: 4t (Turyn 1974).
+    TSequences { t: u64 },
+    /// T-sequences of length t (first child) with Williamson matrices of order w (second):
+    /// 4tw (Cooper and Wallis 1972).
+    CooperWallis { t: u64, w: u64 },
+    /// The child, a skew matrix of order h, doubled to a skew matrix of order 2h.
+    SkewDoubling {},
+    /// Miyamoto's theorem: q ≡ 1 mod 4 a prime power and the child of order q−1 give 4q
+    /// (1991), by this program's own array (`construct::miyamoto`). Yamada's first theorem is
+    /// its case K = H₂ ⊗ H_{(q−1)/2}.
+    Miyamoto { q: u64 },
+    /// Yamada's second theorem (1989): q ≡ 5 mod 8 and the child, a skew order (q+3)/2, give
+    /// 4(q+2). Listed, not built.
+    Yamada { case: YamadaCase, q: u64 },
+    /// The whole order is known from the literature file; no construction of ours reaches it.
+    Literature { note: String },
+    /// A leaf: sequence data from the embedded seed catalogue.
+    Seed(SeedLeaf),
+    /// A leaf: sequence data a paper proves exist, not in our seed catalogue.
+    Published { kind: Family },
+    /// A Golay pair of length g₁g₂ from the children's pairs of lengths g₁ and g₂ (Turyn 1974).
+    GolayProduct {},
+    /// A Golay pair of length 2g from the child's of length g (Golay 1961).
+    GolayDoubling {},
+    /// T-sequences of length g, g+1 or 2g+1 from the child's Golay pair of length g.
+    GolayToT { g: u64, part: GolayPart },
+    /// Base sequences BS(g₁, g₂) from the children's Golay pairs of lengths g₁ ≥ g₂ (so
+    /// T-length g₁ + g₂).
+    GolayPairsToBase { g1: u64, g2: u64 },
+    /// T-sequences of length 2n+p from the child's base sequences BS(n+p, n).
+    BaseToT {},
+    /// Base sequences BS(2n−1, n) from the child's Turyn-type sequences TT(n).
+    TurynToBase { n: u64 },
+    /// Turyn's Williamson matrices of order (q+1)/2, q ≡ 1 mod 4 (Turyn 1972).
+    TurynWilliamson { q: u64 },
+}
+
+impl Construction {
+    /// The method's name.
+    pub fn method(&self) -> Method {
+        match self {
+            Construction::Sylvester { .. } => Method::Sylvester,
+            Construction::PaleyOne { .. } => Method::PaleyOne,
+            Construction::PaleyTwo { .. } => Method::PaleyTwo,
+            Construction::Kronecker {} => Method::Kronecker,
+            Construction::ConferenceProduct { .. } => Method::ConferenceProduct,
+            Construction::TwinPrimePower { .. } => Method::TwinPrimePower,
+            Construction::Williamson { .. } => Method::Williamson,
+            Construction::GoethalsSeidel { .. } => Method::GoethalsSeidel,
+            Construction::TSequences { .. } => Method::TSequences,
+            Construction::CooperWallis { .. } => Method::CooperWallis,
+            Construction::SkewDoubling {} => Method::SkewDoubling,
+            Construction::Miyamoto { .. } => Method::Miyamoto,
+            Construction::Yamada { .. } => Method::Yamada,
+            Construction::Literature { .. } => Method::Literature,
+            Construction::Seed(_) => Method::Seed,
+            Construction::Published { .. } => Method::Published,
+            Construction::GolayProduct {} => Method::GolayProduct,
+            Construction::GolayDoubling {} => Method::GolayDoubling,
+            Construction::GolayToT { .. } => Method::GolayToT,
+            Construction::GolayPairsToBase { .. } => Method::GolayPairsToBase,
+            Construction::BaseToT {} => Method::BaseToT,
+            Construction::TurynToBase { .. } => Method::TurynToBase,
+            Construction::TurynWilliamson { .. } => Method::TurynWilliamson,
+        }
+    }
+
+    /// True when this program can carry out this node with these parameters; the single
+    /// place that says which constructions are implemented (the field sizes are
+    /// [`crate::field`]'s limit).
+    pub fn implemented(&self) -> bool {
+        use Construction::*;
+        match self {
+            Sylvester { .. }
+            | Kronecker {}
+            | Williamson { .. }
+            | GoethalsSeidel { .. }
+            | TSequences { .. }
+            | CooperWallis { .. }
+            | SkewDoubling {}
+            | Seed(_)
+            | GolayToT { .. }
+            | GolayPairsToBase { .. }
+            | BaseToT {}
+            | TurynToBase { .. }
+            | GolayProduct {}
+            | GolayDoubling {} => true,
+            PaleyOne { q } | PaleyTwo { q } | ConferenceProduct { q } | Miyamoto { q } => {
+                *q <= MAX_Q
+            }
+            TwinPrimePower { q } => q.checked_add(2).is_some_and(|q2| q2 <= MAX_Q),
+            // Turyn's family works in GF(q²).
+            TurynWilliamson { q } => q.checked_mul(*q).is_some_and(|qq| qq <= MAX_Q),
+            Yamada { .. } | Literature { .. } | Published { .. } => false,
+        }
+    }
+
+    /// True when the node yields a Hadamard matrix (as opposed to sequence data).
+    pub fn yields_matrix(&self) -> bool {
+        use Construction::*;
+        match self {
+            Sylvester { .. }
+            | PaleyOne { .. }
+            | PaleyTwo { .. }
+            | Kronecker {}
+            | ConferenceProduct { .. }
+            | TwinPrimePower { .. }
+            | Williamson { .. }
+            | GoethalsSeidel { .. }
+            | TSequences { .. }
+            | CooperWallis { .. }
+            | SkewDoubling {}
+            | Miyamoto { .. }
+            | Yamada { .. }
+            | Literature { .. } => true,
+            Seed(_)
+            | Published { .. }
+            | GolayProduct {}
+            | GolayDoubling {}
+            | GolayToT { .. }
+            | GolayPairsToBase { .. }
+            | BaseToT {}
+            | TurynToBase { .. }
+            | TurynWilliamson { .. } => false,
+        }
+    }
+
+    /// The parameters as the recipe writes them (`params`), keys in alphabetical order.
+    pub fn params(&self) -> Map<String, Value> {
+        match serde_json::to_value(self) {
+            Ok(Value::Object(mut m)) => match m.remove("params") {
+                Some(Value::Object(p)) => sorted(p),
+                _ => Map::new(),
+            },
+            _ => Map::new(),
+        }
+    }
+}
+
+/// The map with its keys in alphabetical order, whether or not serde_json keeps insertion
+/// order (its `preserve_order` feature).
+fn sorted(m: Map<String, Value>) -> Map<String, Value> {
+    let mut entries: Vec<(String, Value)> = m.into_iter().collect();
+    entries.sort_by(|a, b| a.0.cmp(&b.0));
+    entries.into_iter().collect()
+}
+
+/// The fields of a seed leaf as the recipe writes them (alphabetical, as the format has them).
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SeedWire {
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    a: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    b: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    c: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    d: Option<String>,
+    kind: Family,
+    provenance: String,
+    source: String,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    t1: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    t2: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    t3: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    t4: Option<String>,
+}
+
+impl SeedWire {
+    /// The named sequence, read; an error names the field.
+    fn take(&mut self, name: &str) -> Result<Vec<i8>, String> {
+        let slot = match name {
+            "a" => &mut self.a,
+            "b" => &mut self.b,
+            "c" => &mut self.c,
+            "d" => &mut self.d,
+            "t1" => &mut self.t1,
+            "t2" => &mut self.t2,
+            "t3" => &mut self.t3,
+            _ => &mut self.t4,
+        };
+        let kind = self.kind;
+        let text = slot.take().ok_or_else(|| {
+            format!(
+                "a `{}` seed needs the sequence `{name}`",
+                serde_json::to_value(kind)
+                    .ok()
+                    .and_then(|v| v.as_str().map(str::to_owned))
+                    .unwrap_or_default()
+            )
+        })?;
+        from_text(&text).map_err(|i| {
+            format!(
+                "`{name}`: bad character at position {} (a sequence is written with +, - and 0)",
+                i + 1
+            )
+        })
+    }
+
+    fn into_leaf(mut self) -> Result<SeedLeaf, String> {
+        let four = |w: &mut SeedWire, names: [&str; 4]| -> Result<[Vec<i8>; 4], String> {
+            Ok([
+                w.take(names[0])?,
+                w.take(names[1])?,
+                w.take(names[2])?,
+                w.take(names[3])?,
+            ])
+        };
+        let data = match self.kind {
+            Family::Williamson => {
+                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
+                SeedData::Williamson(Williamson { a, b, c, d })
+            }
+            Family::Gs => SeedData::Gs(GsQuadruple {
+                a: four(&mut self, ["a", "b", "c", "d"])?,
+            }),
+            Family::Tseq => SeedData::Tseq(TSequences {
+                t: four(&mut self, ["t1", "t2", "t3", "t4"])?,
+            }),
+            Family::Base => {
+                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
+                SeedData::Base(BaseSequences { a, b, c, d })
+            }
+            Family::Turyn => {
+                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
+                SeedData::Turyn(TurynType { a, b, c, d })
+            }
+            Family::Golay => SeedData::Golay(GolayPair {
+                a: self.take("a")?,
+                b: self.take("b")?,
+            }),
+        };
+        let extra = [
+            ("a", &self.a),
+            ("b", &self.b),
+            ("c", &self.c),
+            ("d", &self.d),
+            ("t1", &self.t1),
+            ("t2", &self.t2),
+            ("t3", &self.t3),
+            ("t4", &self.t4),
+        ]
+        .into_iter()
+        .find(|(_, v)| v.is_some());
+        if let Some((name, _)) = extra {
+            return Err(format!(
+                "`{name}` is not a sequence of {}",
+                data.family().words()
+            ));
+        }
+        Ok(SeedLeaf {
+            source: self.source,
+            provenance: self.provenance,
+            data,
+        })
+    }
+
+    fn from_leaf(leaf: &SeedLeaf) -> SeedWire {
+        let mut w = SeedWire {
+            a: None,
+            b: None,
+            c: None,
+            d: None,
+            kind: leaf.data.family(),
+            provenance: leaf.provenance.clone(),
+            source: leaf.source.clone(),
+            t1: None,
+            t2: None,
+            t3: None,
+            t4: None,
+        };
+        let text = |s: &[i8]| Some(to_text(s));
+        match &leaf.data {
+            SeedData::Williamson(Williamson { a, b, c, d })
+            | SeedData::Base(BaseSequences { a, b, c, d })
+            | SeedData::Turyn(TurynType { a, b, c, d })
+            | SeedData::Gs(GsQuadruple { a: [a, b, c, d] }) => {
+                (w.a, w.b, w.c, w.d) = (text(a), text(b), text(c), text(d));
+            }
+            SeedData::Tseq(TSequences { t: [a, b, c, d] }) => {
+                (w.t1, w.t2, w.t3, w.t4) = (text(a), text(b), text(c), text(d));
+            }
+            SeedData::Golay(GolayPair { a, b }) => (w.a, w.b) = (text(a), text(b)),
+        }
+        w
+    }
+}
+
+impl Serialize for SeedLeaf {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        SeedWire::from_leaf(self).serialize(s)
+    }
+}
+
+impl<'de> Deserialize<'de> for SeedLeaf {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        SeedWire::deserialize(d)?
+            .into_leaf()
+            .map_err(D::Error::custom)
+    }
+}
+
+/// A step as the recipe writes it, before its construction is read.
+#[derive(Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct StepWire<C> {
+    method: Method,
+    order: u64,
+    params: Value,
+    reference: String,
+    children: Vec<C>,
+    buildable: bool,
+}
+
+impl Serialize for Step {
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let params = serde_json::to_value(&self.construction).map_err(S::Error::custom)?;
+        let params = match params {
+            Value::Object(mut m) => m.remove("params").unwrap_or_default(),
+            _ => Value::Null,
+        };
+        let params = match params {
+            Value::Object(m) => Value::Object(sorted(m)),
+            other => other,
+        };
+        StepWire {
+            method: self.method(),
+            order: self.order,
+            params,
+            reference: self.reference.clone(),
+            children: self.children.iter().collect(),
+            buildable: self.buildable,
+        }
+        .serialize(s)
+    }
+}
+
+impl<'de> Deserialize<'de> for Step {
+    fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        let w = StepWire::<Step>::deserialize(d)?;
+        let tagged = serde_json::json!({ "method": w.method, "params": w.params });
+        let construction = Construction::deserialize(tagged).map_err(|e| {
+            D::Error::custom(format!(
+                "the `{}` step of order {}: params: {e}",
+                method_name(w.method),
+                w.order
+            ))
+        })?;
+        Ok(Step {
+            construction,
+            order: w.order,
+            reference: w.reference,
+            children: w.children,
+            buildable: w.buildable,
+        })
+    }
+}
+
+/// The method's name as the recipe writes it (`paley_one`).
+pub fn method_name(m: Method) -> String {
+    serde_json::to_value(m)
+        .ok()
+        .and_then(|v| v.as_str().map(str::to_owned))
+        .unwrap_or_default()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Reads a step as a recipe's tree, so errors carry the recipe's line and column.
+    fn read(json: &str) -> Result<Step, String> {
+        let recipe =
+            format!("{{\"format\":\"hadamard-recipe/1\",\"order\":0,\"id\":null,\"tree\":{json}}}");
+        serde_json::from_str::<super::super::Recipe>(&recipe)
+            .map(|r| r.tree)
+            .map_err(|e| e.to_string())
+    }
+
+    #[test]
+    fn route_step_errors_name_the_step_and_the_field() {
+        let ok = r#"{"method":"paley_one","order":12,"params":{"q":11},"reference":"r","children":[],"buildable":true}"#;
+        let s = read(ok).unwrap();
+        assert_eq!(s.construction, Construction::PaleyOne { q: 11 });
+        assert_eq!(serde_json::to_string(&s).unwrap(), ok);
+        // A misspelt parameter: once silently read as something else, now refused by name.
+        let e = read(&ok.replace(r#""q":11"#, r#""p":11"#)).unwrap_err();
+        assert!(e.contains("paley_one") && e.contains("`p`"), "{e}");
+        let e = read(&ok.replace(r#""q":11"#, r#""q":11,"k":2"#)).unwrap_err();
+        assert!(e.contains("`k`"), "{e}");
+        let e = read(&ok.replace(r#""q":11"#, "")).unwrap_err();
+        assert!(e.contains("`q`") && e.contains("line 1 column"), "{e}");
+        let e = read(&ok.replace("paley_one", "paley_three")).unwrap_err();
+        assert!(e.contains("paley_three"), "{e}");
+        let e = read(&ok.replace(r#""buildable""#, r#""bildable""#)).unwrap_err();
+        assert!(e.contains("bildable"), "{e}");
+    }
+
+    #[test]
+    fn route_seed_leaf_errors_name_the_sequence() {
+        // A Golay pair of length 2 (++, +-): N_a(1) + N_b(1) = 1 − 1 = 0 [common practice].
+        let ok = r#"{"method":"seed","order":2,"params":{"a":"++","b":"+-","kind":"golay","provenance":"p","source":"s"},"reference":"r","children":[],"buildable":true}"#;
+        let s = read(ok).unwrap();
+        assert_eq!(serde_json::to_string(&s).unwrap(), ok);
+        let e = read(&ok.replace(r#""kind":"golay""#, r#""kind":"golden""#)).unwrap_err();
+        assert!(e.contains("golden"), "{e}");
+        let e = read(&ok.replace(r#""a":"++","#, "")).unwrap_err();
+        assert!(e.contains("`a`"), "{e}");
+        let e = read(&ok.replace(r#""b":"+-","#, r#""b":"+-","c":"++","#)).unwrap_err();
+        assert!(e.contains("`c`") && e.contains("Golay"), "{e}");
+        let e = read(&ok.replace(r#""b":"+-""#, r#""b":"+x""#)).unwrap_err();
+        assert!(e.contains("`b`") && e.contains("position 2"), "{e}");
+        // The retired stringly lookup sent any unknown name to `t4`.
+        let e = read(&ok.replace(r#""b":"+-""#, r#""b":"+-","t5":"+""#)).unwrap_err();
+        assert!(e.contains("t5"), "{e}");
+    }
+}
