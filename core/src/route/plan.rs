@@ -411,7 +411,7 @@ impl Planner {
             }
             Status::Constructible => format!(
                 "This program builds order {n} now, best by {} (largest dense factor {}).",
-                method_words(best.map_or(Method::Sylvester, |r| r.method)),
+                best.map_or(Method::Sylvester, |r| r.method).phrase(),
                 best.map_or(1, |r| r.largest_dense_factor)
             ),
             Status::Known if best.is_some_and(|r| r.buildable) => format!(
@@ -889,24 +889,6 @@ impl Planner {
 fn uses_only(s: &Step, only: &[Method]) -> bool {
     (s.method() == Method::Literature || only.contains(&s.method()))
         && s.children.iter().all(|c| uses_only(c, only))
-}
-
-fn method_words(m: Method) -> &'static str {
-    match m {
-        Method::Sylvester => "Sylvester's construction",
-        Method::PaleyOne => "Paley's first construction",
-        Method::PaleyTwo => "Paley's second construction",
-        Method::Kronecker => "a Kronecker product",
-        Method::ConferenceProduct => "a conference matrix product",
-        Method::TwinPrimePower => "the twin prime power construction",
-        Method::Williamson => "Williamson's array",
-        Method::GoethalsSeidel => "the Goethals–Seidel array",
-        Method::TSequences => "T-sequences in the Goethals–Seidel array",
-        Method::CooperWallis => "the Cooper–Wallis construction",
-        Method::SkewDoubling => "skew doubling",
-        Method::Miyamoto => "Miyamoto's 4q theorem",
-        _ => "a published construction",
-    }
 }
 
 /// ⌊√n⌋.

@@ -303,32 +303,7 @@ impl Construction {
 
     /// True when the node yields a Hadamard matrix (as opposed to sequence data).
     pub fn yields_matrix(&self) -> bool {
-        use Construction::*;
-        match self {
-            Sylvester { .. }
-            | PaleyOne { .. }
-            | PaleyTwo { .. }
-            | Kronecker {}
-            | ConferenceProduct { .. }
-            | TwinPrimePower { .. }
-            | Williamson { .. }
-            | GoethalsSeidel { .. }
-            | TSequences { .. }
-            | CooperWallis { .. }
-            | SkewDoubling {}
-            | Miyamoto { .. }
-            | Yamada { .. }
-            | Literature { .. } => true,
-            Seed(_)
-            | Published { .. }
-            | GolayProduct {}
-            | GolayDoubling {}
-            | GolayToT { .. }
-            | GolayPairsToBase { .. }
-            | BaseToT {}
-            | TurynToBase { .. }
-            | TurynWilliamson { .. } => false,
-        }
+        self.method().yields_matrix()
     }
 
     /// The parameters as the recipe writes them (`params`), keys in alphabetical order.
@@ -524,14 +499,22 @@ struct StepWire<C> {
 
 impl Serialize for Step {
     fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
-        let params = serde_json::to_value(&self.construction).map_err(S::Error::custom)?;
-        let params = match params {
-            Value::Object(mut m) => m.remove("params").unwrap_or_default(),
-            _ => Value::Null,
+        let Value::Object(mut tagged) =
+            serde_json::to_value(&self.construction).map_err(S::Error::custom)?
+        else {
+            return Err(S::Error::custom("a construction serialises to an object"));
         };
-        let params = match params {
-            Value::Object(m) => Value::Object(sorted(m)),
-            other => other,
+        // The serde tag and `Construction::method` are two spellings of one name.
+        if tagged.get("method") != Some(&Value::String(method_name(self.method()))) {
+            return Err(S::Error::custom(format!(
+                "Construction::method gives {:?} for a `{}` step",
+                self.method(),
+                tagged.get("method").and_then(Value::as_str).unwrap_or("")
+            )));
+        }
+        let params = match tagged.remove("params") {
+            Some(Value::Object(m)) => Value::Object(sorted(m)),
+            _ => Value::Object(Map::new()),
         };
         StepWire {
             method: self.method(),
