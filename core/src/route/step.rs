@@ -19,10 +19,11 @@ use crate::construct::sequences::{
     from_text, to_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
 };
 use crate::field::MAX_Q;
-use serde::de::Error as _;
+use serde::de::{Error as _, MapAccess, Visitor};
 use serde::ser::Error as _;
 use serde::{Deserialize, Deserializer, Serialize, Serializer};
 use serde_json::{Map, Value};
+use std::fmt;
 
 /// One node of a route tree.
 ///
@@ -485,9 +486,8 @@ impl<'de> Deserialize<'de> for SeedLeaf {
     }
 }
 
-/// A step as the recipe writes it, before its construction is read.
-#[derive(Serialize, Deserialize)]
-#[serde(deny_unknown_fields)]
+/// A step as the recipe writes it.
+#[derive(Serialize)]
 struct StepWire<C> {
     method: Method,
     order: u64,
@@ -530,21 +530,91 @@ impl Serialize for Step {
 
 impl<'de> Deserialize<'de> for Step {
     fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
-        let w = StepWire::<Step>::deserialize(d)?;
-        let tagged = serde_json::json!({ "method": w.method, "params": w.params });
-        let construction = Construction::deserialize(tagged).map_err(|e| {
-            D::Error::custom(format!(
-                "the `{}` step of order {}: params: {e}",
-                method_name(w.method),
-                w.order
-            ))
-        })?;
+        d.deserialize_struct("Step", STEP_FIELDS, StepVisitor)
+    }
+}
+
+const STEP_FIELDS: &[&str] = &[
+    "method",
+    "order",
+    "params",
+    "reference",
+    "children",
+    "buildable",
+];
+
+/// Reads a step field by field, so that a bad `params` is refused as soon as it is read: the
+/// error then carries the position of that step's parameters, not of the end of the recipe.
+struct StepVisitor;
+
+/// Fills a field once; a repeated field is an error naming it.
+fn once<T, E: serde::de::Error>(slot: &mut Option<T>, v: T, name: &'static str) -> Result<(), E> {
+    if slot.is_some() {
+        return Err(E::duplicate_field(name));
+    }
+    *slot = Some(v);
+    Ok(())
+}
+
+/// A step's construction from its method and params, with an error naming the step.
+fn read_construction(
+    method: Method,
+    order: Option<u64>,
+    params: Value,
+) -> Result<Construction, String> {
+    let tagged = serde_json::json!({ "method": method, "params": params });
+    Construction::deserialize(tagged).map_err(|e| {
+        let order = order.map(|n| format!(" of order {n}")).unwrap_or_default();
+        format!("the `{}` step{order}: params: {e}", method_name(method))
+    })
+}
+
+impl<'de> Visitor<'de> for StepVisitor {
+    type Value = Step;
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("a route step {method, order, params, reference, children, buildable}")
+    }
+
+    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Step, A::Error> {
+        let mut method: Option<Method> = None;
+        let mut order = None;
+        let mut params: Option<Value> = None;
+        let mut construction = None;
+        let mut reference = None;
+        let mut children = None;
+        let mut buildable = None;
+        while let Some(key) = map.next_key::<String>()? {
+            match key.as_str() {
+                "method" => once(&mut method, map.next_value()?, "method")?,
+                "order" => once(&mut order, map.next_value()?, "order")?,
+                "params" => {
+                    let v: Value = map.next_value()?;
+                    // The recipe format writes `method` first; read the construction now.
+                    if let Some(m) = method {
+                        construction =
+                            Some(read_construction(m, order, v.clone()).map_err(A::Error::custom)?);
+                    }
+                    once(&mut params, v, "params")?;
+                }
+                "reference" => once(&mut reference, map.next_value()?, "reference")?,
+                "children" => once(&mut children, map.next_value()?, "children")?,
+                "buildable" => once(&mut buildable, map.next_value()?, "buildable")?,
+                other => return Err(A::Error::unknown_field(other, STEP_FIELDS)),
+            }
+        }
+        let method = method.ok_or_else(|| A::Error::missing_field("method"))?;
+        let params = params.ok_or_else(|| A::Error::missing_field("params"))?;
+        let construction = match construction {
+            Some(c) => c,
+            None => read_construction(method, order, params).map_err(A::Error::custom)?,
+        };
         Ok(Step {
             construction,
-            order: w.order,
-            reference: w.reference,
-            children: w.children,
-            buildable: w.buildable,
+            order: order.ok_or_else(|| A::Error::missing_field("order"))?,
+            reference: reference.ok_or_else(|| A::Error::missing_field("reference"))?,
+            children: children.ok_or_else(|| A::Error::missing_field("children"))?,
+            buildable: buildable.ok_or_else(|| A::Error::missing_field("buildable"))?,
         })
     }
 }
@@ -583,6 +653,16 @@ mod tests {
         assert!(e.contains("`k`"), "{e}");
         let e = read(&ok.replace(r#""q":11"#, "")).unwrap_err();
         assert!(e.contains("`q`") && e.contains("line 1 column"), "{e}");
+        // The position is that of the step's params, not of the end of the recipe.
+        let nested = format!(
+            r#"{{"method":"kronecker","order":24,"params":{{}},"reference":"r","children":[
+{},
+{}],"buildable":true}}"#,
+            ok.replace(r#""order":12"#, r#""order":2"#),
+            ok.replace(r#""q":11"#, r#""p":11"#)
+        );
+        let e = read(&nested).unwrap_err();
+        assert!(e.contains("`p`") && e.contains("line 3 column"), "{e}");
         let e = read(&ok.replace("paley_one", "paley_three")).unwrap_err();
         assert!(e.contains("paley_three"), "{e}");
         let e = read(&ok.replace(r#""buildable""#, r#""bildable""#)).unwrap_err();
