@@ -352,91 +352,97 @@ struct SeedWire {
     t4: Option<String>,
 }
 
-impl SeedWire {
-    /// The named sequence, read; an error names the field.
-    fn take(&mut self, name: &str) -> Result<Vec<i8>, String> {
-        let slot = match name {
-            "a" => &mut self.a,
-            "b" => &mut self.b,
-            "c" => &mut self.c,
-            "d" => &mut self.d,
-            "t1" => &mut self.t1,
-            "t2" => &mut self.t2,
-            "t3" => &mut self.t3,
-            _ => &mut self.t4,
-        };
-        let kind = self.kind;
-        let text = slot.take().ok_or_else(|| {
-            format!(
-                "a `{}` seed needs the sequence `{name}`",
-                serde_json::to_value(kind)
-                    .ok()
-                    .and_then(|v| v.as_str().map(str::to_owned))
-                    .unwrap_or_default()
-            )
-        })?;
-        from_text(&text).map_err(|i| {
-            format!(
-                "`{name}`: bad character at position {} (a sequence is written with +, - and 0)",
-                i + 1
-            )
-        })
-    }
+/// A seed leaf's sequence, read from its `+`/`-`/`0` text; an error names the field.
+fn sequence(text: Option<String>, name: &str, kind: Family) -> Result<Vec<i8>, String> {
+    let text = text.ok_or_else(|| format!("{} need the sequence `{name}`", kind.words()))?;
+    from_text(&text).map_err(|i| {
+        format!(
+            "`{name}`: bad character at position {} (a sequence is written with +, - and 0)",
+            i + 1
+        )
+    })
+}
 
-    fn into_leaf(mut self) -> Result<SeedLeaf, String> {
-        let four = |w: &mut SeedWire, names: [&str; 4]| -> Result<[Vec<i8>; 4], String> {
-            Ok([
-                w.take(names[0])?,
-                w.take(names[1])?,
-                w.take(names[2])?,
-                w.take(names[3])?,
-            ])
+impl SeedWire {
+    fn into_leaf(self) -> Result<SeedLeaf, String> {
+        let SeedWire {
+            a,
+            b,
+            c,
+            d,
+            kind,
+            provenance,
+            source,
+            t1,
+            t2,
+            t3,
+            t4,
+        } = self;
+        // The sequences of another family must be absent.
+        let own: &[&str] = match kind {
+            Family::Tseq => &["t1", "t2", "t3", "t4"],
+            Family::Golay => &["a", "b"],
+            _ => &["a", "b", "c", "d"],
         };
-        let data = match self.kind {
-            Family::Williamson => {
-                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
-                SeedData::Williamson(Williamson { a, b, c, d })
-            }
+        let all = [
+            ("a", &a),
+            ("b", &b),
+            ("c", &c),
+            ("d", &d),
+            ("t1", &t1),
+            ("t2", &t2),
+            ("t3", &t3),
+            ("t4", &t4),
+        ];
+        if let Some((name, _)) = all
+            .iter()
+            .find(|(name, v)| v.is_some() && !own.contains(name))
+        {
+            return Err(format!("`{name}` is not a sequence of {}", kind.words()));
+        }
+        let data = match kind {
+            Family::Williamson => SeedData::Williamson(Williamson {
+                a: sequence(a, "a", kind)?,
+                b: sequence(b, "b", kind)?,
+                c: sequence(c, "c", kind)?,
+                d: sequence(d, "d", kind)?,
+            }),
             Family::Gs => SeedData::Gs(GsQuadruple {
-                a: four(&mut self, ["a", "b", "c", "d"])?,
+                a: [
+                    sequence(a, "a", kind)?,
+                    sequence(b, "b", kind)?,
+                    sequence(c, "c", kind)?,
+                    sequence(d, "d", kind)?,
+                ],
             }),
             Family::Tseq => SeedData::Tseq(TSequences {
-                t: four(&mut self, ["t1", "t2", "t3", "t4"])?,
+                t: [
+                    sequence(t1, "t1", kind)?,
+                    sequence(t2, "t2", kind)?,
+                    sequence(t3, "t3", kind)?,
+                    sequence(t4, "t4", kind)?,
+                ],
             }),
-            Family::Base => {
-                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
-                SeedData::Base(BaseSequences { a, b, c, d })
-            }
-            Family::Turyn => {
-                let [a, b, c, d] = four(&mut self, ["a", "b", "c", "d"])?;
-                SeedData::Turyn(TurynType { a, b, c, d })
-            }
+            Family::Base => SeedData::Base(BaseSequences {
+                a: sequence(a, "a", kind)?,
+                b: sequence(b, "b", kind)?,
+                c: sequence(c, "c", kind)?,
+                d: sequence(d, "d", kind)?,
+            }),
+            Family::Turyn => SeedData::Turyn(TurynType {
+                a: sequence(a, "a", kind)?,
+                b: sequence(b, "b", kind)?,
+                c: sequence(c, "c", kind)?,
+                d: sequence(d, "d", kind)?,
+            }),
             Family::Golay => SeedData::Golay(GolayPair {
-                a: self.take("a")?,
-                b: self.take("b")?,
+                a: sequence(a, "a", kind)?,
+                b: sequence(b, "b", kind)?,
             }),
         };
-        let extra = [
-            ("a", &self.a),
-            ("b", &self.b),
-            ("c", &self.c),
-            ("d", &self.d),
-            ("t1", &self.t1),
-            ("t2", &self.t2),
-            ("t3", &self.t3),
-            ("t4", &self.t4),
-        ]
-        .into_iter()
-        .find(|(_, v)| v.is_some());
-        if let Some((name, _)) = extra {
-            return Err(format!(
-                "`{name}` is not a sequence of {}",
-                data.family().words()
-            ));
-        }
         Ok(SeedLeaf {
-            source: self.source,
-            provenance: self.provenance,
+            source,
+            provenance,
             data,
         })
     }
