@@ -33,7 +33,10 @@ use crate::id::matrix_id;
 use crate::matrix::Matrix;
 use serde::{Deserialize, Serialize};
 
+mod checked;
 mod sliced;
+
+pub use checked::{check_with, Checked};
 
 /// How many failing pairs a report lists at most. The total count is always exact.
 pub const DEFAULT_PAIR_CAP: usize = 64;
