@@ -80,7 +80,11 @@ mod tests {
             for x in [&whole, &m, &cut] {
                 let two = check_with(x, 5, kernel);
                 assert_eq!(two.pairs_orthogonal(), x == &whole);
-                assert_eq!(two.report(matrix_id(x)), verify_with(x, 5, kernel), "{kernel}");
+                assert_eq!(
+                    two.report(matrix_id(x)),
+                    verify_with(x, 5, kernel),
+                    "{kernel}"
+                );
             }
         }
         let best = Kernel::best();
