@@ -21,6 +21,8 @@
 //!   AVX-512, simd128), written once over a vector trait. The kernel is a parameter
 //!   ([`verify_with`], [`is_hadamard_with`], [`Progressive::with_kernel`]); [`Kernel::best`]
 //!   picks the fastest this CPU has. A kernel never changes a verdict, only its speed.
+//! - `checked`: the check in two steps, [`check_with`] then [`Checked::report`], for a
+//!   caller that computes the id elsewhere (`hadamard verify` hashes a canonical file itself).
 //! - `shares`: the pass cut into [`Split`] shares (one per panel) that Web Workers check with
 //!   [`check_share`], and the exact [`Merge`] of their results into the same [`Report`] that
 //!   [`verify`] gives.
