@@ -4,12 +4,12 @@
 //! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
-use super::input::{read_input, InputArgs, InputError};
+use super::error::{CliError, Kind};
+use super::input::{read_input, InputArgs};
 use super::progress::Spinner;
 use hadamard_core::json;
 use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
-use std::process::ExitCode;
 use std::time::Instant;
 
 #[derive(clap::Args)]
@@ -31,30 +31,33 @@ pub struct VerifyArgs {
     format: Option<String>,
 }
 
-pub fn run(mut args: VerifyArgs) -> ExitCode {
+impl VerifyArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(mut args: VerifyArgs) -> Result<Kind, CliError> {
     if let Some(f) = args.format.take() {
         args.input.input_format = Some(f);
     }
     let kernel = match verify::Kernel::from_name(&args.kernel) {
         Some(k) if k.is_available() => k,
         Some(k) => {
-            return InputError::Usage(format!("the {k} kernel is not available on this CPU"))
-                .report(args.json)
+            return Err(CliError::usage(format!(
+                "the {k} kernel is not available on this CPU"
+            )))
         }
         None => {
             let names: Vec<&str> = verify::Kernel::ALL.iter().map(|k| k.name()).collect();
-            return InputError::Usage(format!(
+            return Err(CliError::usage(format!(
                 "unknown kernel `{}`: use best or one of {}",
                 args.kernel,
                 names.join(", ")
-            ))
-            .report(args.json);
+            )));
         }
     };
-    let parsed = match read_input(&args.input) {
-        Ok(p) => p,
-        Err(e) => return e.report(args.json),
-    };
+    let parsed = read_input(&args.input)?;
     let start = Instant::now();
     let report = verify::verify_with(&parsed.matrix, args.max_pairs, kernel);
     let elapsed = start.elapsed();
@@ -89,11 +92,13 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             follow.completion.as_ref(),
         );
     }
-    if hadamard {
-        ExitCode::SUCCESS
+    Ok(if hadamard {
+        Kind::Done
+    } else if !parsed.erasures.is_empty() {
+        Kind::Incomplete
     } else {
-        ExitCode::from(1)
-    }
+        Kind::NotHadamard
+    })
 }
 
 fn print_human(
