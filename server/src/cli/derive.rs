@@ -502,6 +502,13 @@ fn ordering(a: OrderingArgs) -> Result<Outcome, CliError> {
         return emit(a.output.as_deref(), |out| json_to(out, &rep));
     }
     let order: RowOrder = a.row_order.parse().map_err(derive_failed)?;
+    // Core names the parameter `order`; on the command line it is `--row-order`.
+    let derive_failed = |mut e: DeriveError| {
+        if e.parameter == "order" {
+            e.parameter = "row-order".into();
+        }
+        derive_failed(e)
+    };
     let scaled = if a.scaled {
         Some(match a.format.as_str() {
             "csv" => ScaledFormat::Csv,

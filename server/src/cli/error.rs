@@ -53,12 +53,14 @@ pub enum Kind {
     Undecided,
     /// A search stopped (Ctrl-C, SIGTERM) before its end; its checkpoint resumes it.
     Stopped,
+    /// A second Ctrl-C quit a search at once, without finishing its batch.
+    Interrupted,
 }
 
 impl Kind {
     /// Every kind, in the order of the table.
     #[cfg(test)]
-    pub const ALL: [Kind; 16] = [
+    pub const ALL: [Kind; 17] = [
         Kind::Done,
         Kind::NotHadamard,
         Kind::Incomplete,
@@ -75,12 +77,14 @@ impl Kind {
         Kind::NoRoute,
         Kind::Undecided,
         Kind::Stopped,
+        Kind::Interrupted,
     ];
 
     /// **The exit-status table**, the only place a number is chosen:
     /// 0 yes or done · 1 a well-formed input and the answer is no · 2 the command could not
     /// run on what it was given (usage, input, I/O) · 3 no answer yet: beyond what this
-    /// program builds, or beyond the budget or the time it was given.
+    /// program builds, or beyond the budget or the time it was given · 130 quit at once by a
+    /// second Ctrl-C (the shell's status for an interrupt, 128 + SIGINT).
     pub const fn exit_status(self) -> u8 {
         match self {
             Kind::Done => 0,
@@ -97,6 +101,7 @@ impl Kind {
             | Kind::Io
             | Kind::Internal => 2,
             Kind::NoRoute | Kind::Undecided | Kind::Stopped => 3,
+            Kind::Interrupted => 130,
         }
     }
 
@@ -291,7 +296,7 @@ mod tests {
             .collect();
         assert_eq!(
             rows.iter().map(|r| r.0).collect::<Vec<_>>(),
-            [0, 1, 2, 3],
+            [0, 1, 2, 3, 130],
             "docs/cli.md: the exit-status table"
         );
         for k in Kind::ALL {

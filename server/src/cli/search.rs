@@ -34,7 +34,8 @@ pub struct SearchArgs {
 
 #[derive(clap::Subcommand)]
 enum Kind {
-    /// Williamson quadruples of odd order m (symmetric circulants, A²+B²+C²+D² = 4mI).
+    /// Williamson quadruples of odd length m (symmetric circulants, A²+B²+C²+D² = 4mI; order
+    /// 4m).
     Williamson {
         /// The length m (odd) of each of the four circulant blocks.
         #[arg(long, alias = "order", value_name = "M")]
@@ -344,7 +345,7 @@ fn watch_ctrl_c() {
             eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
             STOP.store(true, Ordering::SeqCst);
         } else {
-            std::process::exit(130);
+            std::process::exit(Outcome::Interrupted.exit_status().into());
         }
     });
     watch_sigterm();
