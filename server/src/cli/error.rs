@@ -126,7 +126,8 @@ pub struct CliError {
     pub kind: Kind,
     pub message: String,
     pub location: Location,
-    pub details: Map<String, Value>,
+    /// More fields for the `--json` object, in order.
+    pub details: Vec<(String, Value)>,
 }
 
 impl CliError {
@@ -135,7 +136,7 @@ impl CliError {
             kind,
             message: message.into(),
             location: Location::Nowhere,
-            details: Map::new(),
+            details: Vec::new(),
         }
     }
 
@@ -166,16 +167,16 @@ impl CliError {
             kind,
             message: placed.to_string(),
             location,
-            details: Map::new(),
+            details: Vec::new(),
         }
     }
 
     /// One more field for the `--json` object.
     pub fn with(mut self, key: &str, value: impl Serialize) -> CliError {
-        self.details.insert(
+        self.details.push((
             key.to_owned(),
             serde_json::to_value(value).unwrap_or(Value::Null),
-        );
+        ));
         self
     }
 
@@ -231,7 +232,7 @@ impl From<ParseError> for CliError {
             kind,
             message: p.to_string(),
             location: p.location,
-            details: Map::new(),
+            details: Vec::new(),
         }
     }
 }
