@@ -47,7 +47,7 @@ pub fn run(args: EquivArgs) -> Result<Kind, CliError> {
                 });
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
-                println!("inequivalent: {e}");
+                println!("inequivalent: {}", e.message);
                 println!("  A  {} (order {})", a.id(), a.order());
                 println!("  B  {} (order {})", b.id(), b.order());
             }
