@@ -5,11 +5,14 @@
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
 use super::error::{CliError, Kind};
-use super::input::{read_input, InputArgs};
+use super::input::{parse_input, read_bytes, InputArgs, DEFAULT_MAX_BYTES};
 use super::progress::Spinner;
+use hadamard_core::formats::Format;
+use hadamard_core::id::{canonical_text_id, matrix_id};
 use hadamard_core::json;
 use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Instant;
 
 #[derive(clap::Args)]
@@ -57,10 +60,35 @@ pub fn run(mut args: VerifyArgs) -> Result<Kind, CliError> {
             )));
         }
     };
-    let parsed = read_input(&args.input)?;
-    let start = Instant::now();
-    let report = verify::verify_with(&parsed.matrix, args.max_pairs, kernel);
-    let elapsed = start.elapsed();
+    let bytes = read_bytes(&args.input.path, DEFAULT_MAX_BYTES)?;
+    // While this thread parses and checks (on every core), another hashes the id straight
+    // from the file when the file is the canonical text, as a `pm` file written by this
+    // project is; otherwise the id is hashed from the parsed matrix afterwards.
+    let stop = AtomicBool::new(false);
+    let (parsed, report, elapsed) = std::thread::scope(|s| {
+        let hasher = s.spawn(|| canonical_text_id(&bytes, &stop));
+        let parsed = match parse_input(&bytes, &args.input) {
+            Ok(p) => p,
+            Err(e) => {
+                stop.store(true, Ordering::Relaxed);
+                return Err(e);
+            }
+        };
+        let start = Instant::now();
+        let m = &parsed.matrix;
+        let checked = verify::check_with(m, args.max_pairs, kernel);
+        let id = match hasher.join() {
+            Ok(Some((id, rows, cols)))
+                if parsed.format == Format::Pm && (rows, cols) == (m.rows(), m.cols()) =>
+            {
+                id
+            }
+            _ => matrix_id(m),
+        };
+        let report = checked.report(id);
+        Ok::<_, CliError>((parsed, report, start.elapsed()))
+    })?;
+    drop(bytes);
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
     let spin = (!parsed.erasures.is_empty()).then(|| {
         Spinner::start(&format!(
