@@ -28,5 +28,6 @@ pub mod route;
 pub mod search;
 pub mod seed;
 pub mod verify;
+pub mod wire;
 
 pub use matrix::Matrix;

@@ -169,7 +169,7 @@ async fn head_limits(req: Request, next: Next) -> Response {
             StatusCode::URI_TOO_LONG,
             format!("the request target is {uri_len} bytes, over this server's limit of {MAX_URI_BYTES}"),
         )
-        .with("limit", MAX_URI_BYTES)
+        .limit(MAX_URI_BYTES)
         .into_response();
     }
     let header_bytes: usize = req
@@ -182,7 +182,7 @@ async fn head_limits(req: Request, next: Next) -> Response {
             StatusCode::REQUEST_HEADER_FIELDS_TOO_LARGE,
             format!("the request headers are {header_bytes} bytes, over this server's limit of {MAX_HEADER_BYTES}"),
         )
-        .with("limit", MAX_HEADER_BYTES)
+        .limit(MAX_HEADER_BYTES)
         .into_response();
     }
     next.run(req).await
