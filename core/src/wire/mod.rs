@@ -422,6 +422,15 @@ impl Default for ApiIndex {
     }
 }
 
+/// The wire name of a unit variant (`constructible`, `paley_one`, `equivalent`, …): what the
+/// page shows and the words for it are keyed by.
+pub fn name_of<T: Serialize>(v: &T) -> String {
+    match serde_json::to_value(v) {
+        Ok(Value::String(s)) => s,
+        _ => String::new(),
+    }
+}
+
 /// A status name as the store keeps it (`constructible`, …), read back.
 pub fn status_from_name(s: &str) -> Option<Status> {
     serde_json::from_value(Value::String(s.to_owned())).ok()
@@ -457,6 +466,8 @@ mod tests {
             r#"{"kind":"uploaded","uploaded_at":"2026-01-01T00:00:00Z","received_format":"pm"}"#
         );
         assert_eq!(status_from_name("known"), Some(Status::Known));
+        assert_eq!(name_of(&Status::Constructible), "constructible");
+        assert_eq!(name_of(&crate::route::Method::PaleyOne), "paley_one");
         assert_eq!(status_from_name("nonsense"), None);
         assert_eq!(
             serde_json::to_string(&Origin::Constructed).unwrap(),
