@@ -119,7 +119,7 @@ pub enum Provenance {
     /// Built by this program: when, and the recipe that replays it (`null` if unreadable).
     Constructed {
         constructed_at: String,
-        recipe: Option<Value>,
+        recipe: Option<Recipe>,
     },
     /// Uploaded: when, and the format it was read as.
     Uploaded {
@@ -129,13 +129,11 @@ pub enum Provenance {
 }
 
 impl Provenance {
-    /// The recipe, read as one.
-    pub fn recipe(&self) -> Option<Recipe> {
+    /// The recipe of a constructed matrix.
+    pub fn recipe(&self) -> Option<&Recipe> {
         match self {
-            Provenance::Constructed {
-                recipe: Some(r), ..
-            } => serde_json::from_value(r.clone()).ok(),
-            _ => None,
+            Provenance::Constructed { recipe, .. } => recipe.as_ref(),
+            Provenance::Uploaded { .. } => None,
         }
     }
 
@@ -171,7 +169,7 @@ pub struct CatalogueMatrix {
     /// True when this request built and stored it.
     pub built_now: bool,
     /// The recipe that replays it (`route::build_recipe`), `null` if unreadable.
-    pub recipe: Option<Value>,
+    pub recipe: Option<Recipe>,
 }
 
 /// How a stored matrix first reached the catalogue, in listings.
@@ -269,7 +267,7 @@ pub struct InvariantInfo {
 pub struct CatalogueRef {
     pub order: u64,
     pub built_at: String,
-    pub recipe: Option<Value>,
+    pub recipe: Option<Recipe>,
 }
 
 /// Links to every derived object of a stored matrix (`{k}` and `{other id}` are to be filled).
@@ -391,6 +389,21 @@ pub struct ApiIndex {
     pub download_formats: Vec<String>,
     /// Each error status and when it is answered.
     pub statuses: BTreeMap<u16, String>,
+    /// Each endpoint in full: what it answers and with which statuses.
+    pub endpoint_details: Vec<EndpointInfo>,
+}
+
+/// One endpoint of [`endpoints::ENDPOINTS`], as `GET /api` serves it.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct EndpointInfo {
+    pub method: String,
+    pub path: String,
+    pub query: String,
+    pub summary: String,
+    /// The statuses it answers besides those any request may get.
+    pub statuses: Vec<u16>,
+    /// Fixed by the interface contract.
+    pub contract: bool,
 }
 
 impl ApiIndex {
@@ -411,6 +424,17 @@ impl ApiIndex {
             statuses: endpoints::ERROR_STATUSES
                 .iter()
                 .map(|(c, w)| (*c, w.to_string()))
+                .collect(),
+            endpoint_details: endpoints::ENDPOINTS
+                .iter()
+                .map(|e| EndpointInfo {
+                    method: e.method.into(),
+                    path: e.path.into(),
+                    query: e.query.into(),
+                    summary: e.summary.into(),
+                    statuses: e.statuses.to_vec(),
+                    contract: e.contract,
+                })
                 .collect(),
         }
     }
