@@ -191,7 +191,7 @@ fn every_endpoint_answers_as_its_snapshot() {
     let list: MatrixList = t.get("order_12_matrices", "/api/orders/12/matrices");
     assert_eq!(list.catalogue_entry.as_deref(), Some(id.as_str()));
     let p: IdPrefixAnswer = t.get("id_prefix", &format!("/api/id-prefix/{}", &id[..8]));
-    assert_eq!(p.ids, [id.clone()]);
+    assert_eq!(p.ids, std::slice::from_ref(&id));
 
     // The stored matrix: metadata, every download, a row.
     let info: MatrixInfo = t.get("matrix_12", &format!("/api/matrices/{id}"));

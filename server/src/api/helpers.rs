@@ -15,7 +15,7 @@ use std::sync::Arc;
 #[derive(Debug)]
 pub struct ApiError {
     pub status: StatusCode,
-    pub body: ErrorBody,
+    pub body: Box<ErrorBody>,
     /// Set for an upload that is well-formed but not Hadamard: this is the answer then.
     pub not_hadamard: Option<Box<NotHadamardBody>>,
 }
@@ -24,7 +24,7 @@ impl ApiError {
     pub fn new(status: StatusCode, message: impl Into<String>) -> ApiError {
         ApiError {
             status,
-            body: ErrorBody::new(message),
+            body: Box::new(ErrorBody::new(message)),
             not_hadamard: None,
         }
     }
@@ -33,7 +33,7 @@ impl ApiError {
     pub fn not_hadamard(body: NotHadamardBody) -> ApiError {
         ApiError {
             status: StatusCode::UNPROCESSABLE_ENTITY,
-            body: ErrorBody::new(body.error.clone()),
+            body: Box::new(ErrorBody::new(body.error.clone())),
             not_hadamard: Some(Box::new(body)),
         }
     }
