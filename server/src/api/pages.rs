@@ -30,7 +30,7 @@ pub const INDEX_HTML: &str = r#"<!doctype html>
 <style>#boot-loading{font:16px/1.5 system-ui,sans-serif;max-width:62rem;margin:0 auto;padding:1em;color:#1d3557}#boot-loading h1{font-size:1.6rem}</style>
 </head>
 <body>
-<div id="boot-loading"><h1>Hadamard Registry</h1><p id="boot-status">Loading the page (about 300 KB)…</p></div>
+<div id="boot-loading"><h1>Hadamard Registry</h1><p id="boot-status">Loading the page (about 400 KB)…</p></div>
 <noscript>The Hadamard Registry's page needs JavaScript and WebAssembly. The JSON API under /api/ works without them.</noscript>
 </body>
 </html>
