@@ -47,7 +47,7 @@
     allow(dead_code)
 )]
 
-use super::PairTally;
+use super::pass::PairTally;
 use crate::matrix::{transpose64, Matrix};
 
 /// Bit planes of the counts compared: counts and pop(j) are below 2¹⁸.
