@@ -6,16 +6,14 @@
 //! gave: the tree carries every parameter and, for seed leaves, the sequences themselves, so
 //! replaying it needs nothing else and gives the identical matrix.
 
+use super::step::{Construction, GolayPart, SeedData};
 use super::{order_info, Method, Route, Status, Step};
 use crate::construct::sequences::{
-    from_text, BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
+    BaseSequences, GolayPair, GsQuadruple, TSequences, TurynType, Williamson,
 };
 use crate::construct::{self, ConstructError};
-use crate::field::MAX_Q;
 use crate::verify::Verified;
 use serde::{Deserialize, Serialize};
-use serde_json::Value;
-use std::collections::BTreeMap;
 use std::fmt;
 
 /// The largest order [`build`] attempts: n²/8 bytes, 128 MiB at 2^15. Larger orders with a
@@ -24,47 +22,6 @@ pub const MAX_BUILD_ORDER: u64 = 1 << 15;
 
 /// The `format` of a recipe this version writes and reads.
 pub const RECIPE_FORMAT: &str = "hadamard-recipe/1";
-
-/// True when this program can carry out a node of this method with these parameters; the
-/// single place that says which constructions are implemented.
-pub(crate) fn implemented(method: Method, params: &BTreeMap<String, Value>) -> bool {
-    let q_ok = || {
-        params
-            .get("q")
-            .and_then(Value::as_u64)
-            .is_some_and(|q| q <= MAX_Q)
-    };
-    match method {
-        Method::Sylvester
-        | Method::Kronecker
-        | Method::Williamson
-        | Method::GoethalsSeidel
-        | Method::TSequences
-        | Method::CooperWallis
-        | Method::SkewDoubling
-        | Method::GolayToT
-        | Method::GolayPairsToBase
-        | Method::BaseToT
-        | Method::TurynToBase
-        | Method::GolayProduct
-        | Method::GolayDoubling => true,
-        // A seed leaf is buildable when it carries its sequences (the planner always writes them).
-        Method::Seed => params.get("kind").and_then(Value::as_str).is_some(),
-        Method::PaleyOne | Method::PaleyTwo | Method::ConferenceProduct | Method::Miyamoto => {
-            q_ok()
-        }
-        Method::TwinPrimePower => params
-            .get("q")
-            .and_then(Value::as_u64)
-            .is_some_and(|q| q + 2 <= MAX_Q),
-        // Turyn's family works in GF(q²).
-        Method::TurynWilliamson => params
-            .get("q")
-            .and_then(Value::as_u64)
-            .is_some_and(|q| q.checked_mul(q).is_some_and(|qq| qq <= MAX_Q)),
-        Method::Yamada | Method::Literature | Method::Published => false,
-    }
-}
 
 /// Why a route gave no matrix.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -191,17 +148,8 @@ pub fn build_order(n: u64) -> Result<Verified, BuildError> {
     }
 }
 
-fn param(s: &Step, key: &str) -> Result<u64, BuildError> {
-    s.params.get(key).and_then(Value::as_u64).ok_or_else(|| {
-        BuildError::BadRecipe(format!(
-            "{:?} of order {} needs a whole-number `{key}`",
-            s.method, s.order
-        ))
-    })
-}
-
 fn bad(s: &Step, why: impl fmt::Display) -> BuildError {
-    BuildError::BadRecipe(format!("{:?} of order {}: {why}", s.method, s.order))
+    BuildError::BadRecipe(format!("{:?} of order {}: {why}", s.method(), s.order))
 }
 
 /// What a node yields: a verified matrix, or one of the sequence families.
@@ -270,77 +218,19 @@ fn children<const N: usize>(s: &Step) -> Result<[Built; N], BuildError> {
         .unwrap_or_else(|_| unreachable!("length checked above")))
 }
 
-/// A sequence parameter of a seed leaf, read back from its `+`/`-`/`0` text.
-fn seq(s: &Step, key: &str) -> Result<Vec<i8>, BuildError> {
-    let text = s
-        .params
-        .get(key)
-        .and_then(Value::as_str)
-        .ok_or_else(|| bad(s, format!("a seed leaf needs the sequence `{key}`")))?;
-    from_text(text).map_err(|i| bad(s, format!("`{key}`: bad character at position {}", i + 1)))
-}
-
 /// A seed leaf: the sequences it carries, checked against their defining identity.
-fn seed_leaf(s: &Step) -> Result<Built, BuildError> {
-    let kind = s.params.get("kind").and_then(Value::as_str).unwrap_or("");
-    let (b, valid) = match kind {
-        "williamson" => {
-            let w = Williamson {
-                a: seq(s, "a")?,
-                b: seq(s, "b")?,
-                c: seq(s, "c")?,
-                d: seq(s, "d")?,
-            };
-            let ok = w.is_valid();
-            (Built::Williamson(w), ok)
-        }
-        "gs" => {
-            let g = GsQuadruple {
-                a: [seq(s, "a")?, seq(s, "b")?, seq(s, "c")?, seq(s, "d")?],
-            };
-            let ok = g.is_valid();
-            (Built::Gs(g), ok)
-        }
-        "tseq" => {
-            let t = TSequences {
-                t: [seq(s, "t1")?, seq(s, "t2")?, seq(s, "t3")?, seq(s, "t4")?],
-            };
-            let ok = t.is_valid();
-            (Built::TSeq(t), ok)
-        }
-        "base" => {
-            let x = BaseSequences {
-                a: seq(s, "a")?,
-                b: seq(s, "b")?,
-                c: seq(s, "c")?,
-                d: seq(s, "d")?,
-            };
-            let ok = x.is_valid();
-            (Built::Base(x), ok)
-        }
-        "turyn" => {
-            let x = TurynType {
-                a: seq(s, "a")?,
-                b: seq(s, "b")?,
-                c: seq(s, "c")?,
-                d: seq(s, "d")?,
-            };
-            let ok = x.is_valid();
-            (Built::Turyn(x), ok)
-        }
-        "golay" => {
-            let g = GolayPair {
-                a: seq(s, "a")?,
-                b: seq(s, "b")?,
-            };
-            let ok = g.is_valid();
-            (Built::Golay(g), ok)
-        }
-        other => return Err(bad(s, format!("unknown seed kind `{other}`"))),
+fn seed_leaf(s: &Step, data: &SeedData) -> Result<Built, BuildError> {
+    let (b, valid) = match data {
+        SeedData::Williamson(w) => (Built::Williamson(w.clone()), w.is_valid()),
+        SeedData::Gs(g) => (Built::Gs(g.clone()), g.is_valid()),
+        SeedData::Tseq(t) => (Built::TSeq(t.clone()), t.is_valid()),
+        SeedData::Base(x) => (Built::Base(x.clone()), x.is_valid()),
+        SeedData::Turyn(x) => (Built::Turyn(x.clone()), x.is_valid()),
+        SeedData::Golay(g) => (Built::Golay(g.clone()), g.is_valid()),
     };
     if !valid {
         return Err(BuildError::Construct {
-            method: s.method,
+            method: s.method(),
             order: s.order,
             error: ConstructError::Hypothesis(format!(
                 "the seed's {} fail their defining identity",
@@ -357,24 +247,20 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
     }
     let constructed = |r: Result<Verified, ConstructError>| {
         r.map(Built::Matrix).map_err(|error| BuildError::Construct {
-            method: s.method,
+            method: s.method(),
             order: s.order,
             error,
         })
     };
     let wrong = |b: &Built| bad(s, format!("cannot use {} here", b.what()));
-    let built = match s.method {
-        Method::Sylvester => {
-            let k = u32::try_from(param(s, "k")?)
-                .map_err(|_| BuildError::BadRecipe("k too large".into()))?;
-            constructed(construct::sylvester::sylvester(k))?
+    let built = match &s.construction {
+        Construction::Sylvester { k } => constructed(construct::sylvester::sylvester(*k))?,
+        Construction::PaleyOne { q } => constructed(construct::paley::paley_one(*q))?,
+        Construction::PaleyTwo { q } => constructed(construct::paley::paley_two(*q))?,
+        Construction::TwinPrimePower { q } => {
+            constructed(construct::twin_prime::twin_prime_power(*q))?
         }
-        Method::PaleyOne => constructed(construct::paley::paley_one(param(s, "q")?))?,
-        Method::PaleyTwo => constructed(construct::paley::paley_two(param(s, "q")?))?,
-        Method::TwinPrimePower => {
-            constructed(construct::twin_prime::twin_prime_power(param(s, "q")?))?
-        }
-        Method::Kronecker => match children::<2>(s)? {
+        Construction::Kronecker {} => match children::<2>(s)? {
             [Built::Matrix(a), Built::Matrix(b)] => {
                 constructed(construct::kronecker::kronecker(&a, &b))?
             }
@@ -386,34 +272,34 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
                 }))
             }
         },
-        Method::ConferenceProduct => match children::<1>(s)? {
+        Construction::ConferenceProduct { q } => match children::<1>(s)? {
             [Built::Matrix(h)] => constructed(
-                construct::paley::paley_conference(param(s, "q")?)
+                construct::paley::paley_conference(*q)
                     .and_then(|c| construct::conference::conference_product(&c, &h)),
             )?,
             [x] => return Err(wrong(&x)),
         },
-        Method::Miyamoto => match children::<1>(s)? {
-            [Built::Matrix(k)] => constructed(construct::miyamoto::miyamoto(param(s, "q")?, &k))?,
+        Construction::Miyamoto { q } => match children::<1>(s)? {
+            [Built::Matrix(k)] => constructed(construct::miyamoto::miyamoto(*q, &k))?,
             [x] => return Err(wrong(&x)),
         },
-        Method::SkewDoubling => match children::<1>(s)? {
+        Construction::SkewDoubling {} => match children::<1>(s)? {
             [Built::Matrix(h)] => constructed(construct::skew::skew_double(&h))?,
             [x] => return Err(wrong(&x)),
         },
-        Method::Williamson => match children::<1>(s)? {
+        Construction::Williamson { .. } => match children::<1>(s)? {
             [Built::Williamson(w)] => constructed(construct::williamson::williamson_array(&w))?,
             [x] => return Err(wrong(&x)),
         },
-        Method::GoethalsSeidel => match children::<1>(s)? {
+        Construction::GoethalsSeidel { .. } => match children::<1>(s)? {
             [Built::Gs(g)] => constructed(construct::goethals_seidel::goethals_seidel(&g))?,
             [x] => return Err(wrong(&x)),
         },
-        Method::TSequences => match children::<1>(s)? {
+        Construction::TSequences { .. } => match children::<1>(s)? {
             [Built::TSeq(t)] => constructed(construct::t_sequences::t_sequences(&t))?,
             [x] => return Err(wrong(&x)),
         },
-        Method::CooperWallis => match children::<2>(s)? {
+        Construction::CooperWallis { .. } => match children::<2>(s)? {
             [Built::TSeq(t), Built::Williamson(w)] => {
                 constructed(construct::cooper_wallis::cooper_wallis(&t, &w))?
             }
@@ -421,67 +307,63 @@ fn build_node(s: &Step) -> Result<Built, BuildError> {
                 return Err(wrong(if matches!(x, Built::TSeq(_)) { &y } else { &x }));
             }
         },
-        Method::Seed => seed_leaf(s)?,
-        Method::TurynWilliamson => Built::Williamson(
-            construct::turyn_williamson::turyn_williamson(param(s, "q")?).map_err(|error| {
-                BuildError::Construct {
-                    method: s.method,
+        Construction::Seed(leaf) => seed_leaf(s, &leaf.data)?,
+        Construction::TurynWilliamson { q } => {
+            Built::Williamson(construct::turyn_williamson::turyn_williamson(*q).map_err(
+                |error| BuildError::Construct {
+                    method: s.method(),
                     order: s.order,
                     error,
-                }
-            })?,
-        ),
-        Method::GolayDoubling => match children::<1>(s)? {
+                },
+            )?)
+        }
+        Construction::GolayDoubling {} => match children::<1>(s)? {
             [Built::Golay(g)] => Built::Golay(construct::t_sequences::golay_doubling(&g)),
             [x] => return Err(wrong(&x)),
         },
-        Method::GolayProduct => match children::<2>(s)? {
+        Construction::GolayProduct {} => match children::<2>(s)? {
             [Built::Golay(a), Built::Golay(b)] => {
                 Built::Golay(construct::t_sequences::golay_product(&a, &b))
             }
             [x, y] => return Err(wrong(if matches!(x, Built::Golay(_)) { &y } else { &x })),
         },
-        Method::GolayToT => match children::<1>(s)? {
+        Construction::GolayToT { part, .. } => match children::<1>(s)? {
             [Built::Golay(g)] => {
-                let part = match s.params.get("part").and_then(Value::as_str) {
-                    Some("g") => 0,
-                    Some("g+1") => 1,
-                    Some("2g+1") => 2,
-                    other => {
-                        return Err(bad(
-                            s,
-                            format!("`part` must be g, g+1 or 2g+1, found {other:?}"),
-                        ))
-                    }
+                let k = match part {
+                    GolayPart::G => 0,
+                    GolayPart::GPlusOne => 1,
+                    GolayPart::TwiceGPlusOne => 2,
                 };
                 let mut ts = construct::t_sequences::golay_to_t(&g);
-                Built::TSeq(ts.swap_remove(part))
+                Built::TSeq(ts.swap_remove(k))
             }
             [x] => return Err(wrong(&x)),
         },
-        Method::GolayPairsToBase => match children::<2>(s)? {
+        Construction::GolayPairsToBase { .. } => match children::<2>(s)? {
             [Built::Golay(a), Built::Golay(b)] => {
                 Built::Base(construct::t_sequences::golay_pairs_to_base(&a, &b))
             }
             [x, y] => return Err(wrong(if matches!(x, Built::Golay(_)) { &y } else { &x })),
         },
-        Method::BaseToT => match children::<1>(s)? {
+        Construction::BaseToT {} => match children::<1>(s)? {
             [Built::Base(b)] => Built::TSeq(construct::t_sequences::base_to_t(&b)),
             [x] => return Err(wrong(&x)),
         },
-        Method::TurynToBase => match children::<1>(s)? {
+        Construction::TurynToBase { .. } => match children::<1>(s)? {
             [Built::Turyn(t)] => Built::Base(construct::t_sequences::turyn_to_base(&t)),
             [x] => return Err(wrong(&x)),
         },
-        m @ (Method::Literature | Method::Published | Method::Yamada) => {
-            let reason = match m {
-                Method::Literature | Method::Published => {
-                    "it rests on a published result whose data this program does not hold"
+        Construction::Literature { .. }
+        | Construction::Published { .. }
+        | Construction::Yamada { .. } => {
+            let reason = match s.construction {
+                Construction::Yamada { .. } => {
+                    "this construction is listed from the literature and not implemented"
                 }
-                _ => "this construction is listed from the literature and not implemented",
+                _ => "it rests on a published result whose data this program does not hold",
             };
             return Err(BuildError::NotBuildable {
-                method: m,
+                method: s.method(),
                 order: s.order,
                 reason: reason.to_string(),
             });

@@ -21,6 +21,7 @@ mod advice;
 mod build;
 pub mod literature;
 mod plan;
+mod step;
 #[cfg(test)]
 mod tests;
 
@@ -33,10 +34,11 @@ pub use build::{
     RECIPE_FORMAT,
 };
 pub use plan::{Planner, SeedIndex};
+pub use step::{
+    method_name, Construction, Family, GolayPart, SeedData, SeedLeaf, Step, YamadaCase,
+};
 
 use serde::{Deserialize, Serialize};
-use serde_json::Value;
-use std::collections::BTreeMap;
 
 /// What is known about an order.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
@@ -54,7 +56,8 @@ pub enum Status {
     Uncovered,
 }
 
-/// A construction, or a kind of leaf, in a route tree.
+/// The name of a [`Construction`] (its `method` in a recipe): a plain enum for ranking, filters
+/// and errors. The parameters live in [`Construction`].
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Method {
@@ -109,25 +112,78 @@ pub enum Method {
     TurynWilliamson,
 }
 
-/// One node of a route tree.
-///
-/// For a node that yields a matrix, `order` is its order. For a node that yields sequence data
-/// (Seed, Published, the Golay, base and Turyn steps, TurynWilliamson) `order` is the index of
-/// the family: the T-length t, the Williamson order m, the Goethals–Seidel length v, the Golay
-/// length g, the Turyn parameter n, or the longer length n+p of base sequences; `params.kind`
-/// names the family.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
-pub struct Step {
-    pub method: Method,
-    pub order: u64,
-    /// The parameters: q, k, t, w, part, kind, and for seed leaves the source, the provenance
-    /// and the sequences themselves (so a recipe replays without the catalogue).
-    pub params: BTreeMap<String, Value>,
-    /// The published reference for this step.
-    pub reference: String,
-    pub children: Vec<Step>,
-    /// True when this node and everything below it can be built by this program now.
-    pub buildable: bool,
+impl Method {
+    /// True when a node of this method yields a Hadamard matrix (its `order` is a matrix
+    /// order), rather than sequence data indexed by a length.
+    pub fn yields_matrix(self) -> bool {
+        use Method::*;
+        match self {
+            Sylvester | PaleyOne | PaleyTwo | Kronecker | ConferenceProduct | TwinPrimePower
+            | Williamson | GoethalsSeidel | TSequences | CooperWallis | SkewDoubling | Miyamoto
+            | Yamada | Literature => true,
+            Seed | Published | GolayProduct | GolayDoubling | GolayToT | GolayPairsToBase
+            | BaseToT | TurynToBase | TurynWilliamson => false,
+        }
+    }
+
+    /// The construction's name as its papers call it, for headings ("Paley's first
+    /// construction").
+    pub fn title(self) -> &'static str {
+        match self {
+            Method::Sylvester => "Sylvester's doubling",
+            Method::PaleyOne => "Paley's first construction",
+            Method::PaleyTwo => "Paley's second construction",
+            Method::Kronecker => "Kronecker product",
+            Method::ConferenceProduct => "Conference-matrix product",
+            Method::TwinPrimePower => "Twin prime power difference set",
+            Method::Williamson => "Williamson's array",
+            Method::GoethalsSeidel => "Goethals–Seidel array",
+            Method::TSequences => "T-sequences in the Goethals–Seidel array",
+            Method::CooperWallis => "Cooper–Wallis (T-sequences with Williamson matrices)",
+            Method::SkewDoubling => "Skew doubling",
+            Method::Miyamoto => "Miyamoto's theorem",
+            Method::Yamada => "Yamada's theorems",
+            Method::Literature => "Known from the literature",
+            Method::Seed => "Sequence data from our seed catalogue",
+            Method::Published => "Sequence data proved to exist in print",
+            Method::GolayProduct => "Golay pair product",
+            Method::GolayDoubling => "Golay pair doubling",
+            Method::GolayToT => "T-sequences from a Golay pair",
+            Method::GolayPairsToBase => "Base sequences from two Golay pairs",
+            Method::BaseToT => "T-sequences from base sequences",
+            Method::TurynToBase => "Base sequences from Turyn-type sequences",
+            Method::TurynWilliamson => "Turyn's Williamson matrices",
+        }
+    }
+
+    /// The construction in a sentence ("best by Paley's first construction").
+    pub fn phrase(self) -> &'static str {
+        match self {
+            Method::Sylvester => "Sylvester's construction",
+            Method::PaleyOne => "Paley's first construction",
+            Method::PaleyTwo => "Paley's second construction",
+            Method::Kronecker => "a Kronecker product",
+            Method::ConferenceProduct => "a conference matrix product",
+            Method::TwinPrimePower => "the twin prime power construction",
+            Method::Williamson => "Williamson's array",
+            Method::GoethalsSeidel => "the Goethals–Seidel array",
+            Method::TSequences => "T-sequences in the Goethals–Seidel array",
+            Method::CooperWallis => "the Cooper–Wallis construction",
+            Method::SkewDoubling => "skew doubling",
+            Method::Miyamoto => "Miyamoto's 4q theorem",
+            Method::Yamada
+            | Method::Literature
+            | Method::Seed
+            | Method::Published
+            | Method::GolayProduct
+            | Method::GolayDoubling
+            | Method::GolayToT
+            | Method::GolayPairsToBase
+            | Method::BaseToT
+            | Method::TurynToBase
+            | Method::TurynWilliamson => "a published construction",
+        }
+    }
 }
 
 /// A whole route for an order, with what ranks it.

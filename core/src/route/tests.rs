@@ -384,19 +384,18 @@ fn recipes_carry_their_sequences_and_refuse_tampered_ones() {
         .unwrap();
     let mut recipe = recipe_for(&route);
     let leaf = &mut recipe.tree.children[0];
-    assert_eq!(leaf.method, Method::Seed);
-    let a = leaf.params["a"].as_str().unwrap().to_string();
-    assert_eq!(a.len(), 23);
-    let flipped: String = a
-        .chars()
-        .enumerate()
-        .map(|(i, c)| match (i, c) {
-            (1 | 22, '+') => '-',
-            (1 | 22, _) => '+',
-            _ => c,
-        })
-        .collect();
-    leaf.params.insert("a".into(), flipped.into());
+    assert_eq!(leaf.method(), Method::Seed);
+    let Construction::Seed(SeedLeaf {
+        data: SeedData::Williamson(w),
+        ..
+    }) = &mut leaf.construction
+    else {
+        panic!("{leaf:?}");
+    };
+    assert_eq!(w.a.len(), 23);
+    // Flip a₁ and a₂₂ together, so the row stays symmetric but the identity fails.
+    w.a[1] = -w.a[1];
+    w.a[22] = -w.a[22];
     assert!(matches!(
         build_recipe(&recipe),
         Err(BuildError::Construct {
@@ -427,7 +426,7 @@ fn miyamoto_4q_orders_are_built_recursively() {
             (Method::Miyamoto, true),
             "{n}"
         );
-        assert_eq!(best.tree.params["q"], n / 4);
+        assert_eq!(best.tree.construction, Construction::Miyamoto { q: n / 4 });
         assert_eq!(best.tree.children[0].order, n / 4 - 1);
     }
     for n in [712u64, 1192] {
@@ -468,14 +467,15 @@ fn yamada_first_theorem_is_miyamoto_with_a_doubled_k() {
         .find(|r| r.method == Method::Miyamoto && r.tree.reference.contains("Yamada"))
         .unwrap_or_else(|| panic!("{info:#?}"));
     let k = &r.tree.children[0];
-    assert_eq!((k.method, k.order), (Method::Kronecker, 16));
+    assert_eq!((k.method(), k.order), (Method::Kronecker, 16));
     assert_eq!((k.children[0].order, k.children[1].order), (2, 8));
     let v = build(r).unwrap();
     assert_eq!(v.order(), 68);
     assert!(crate::verify::is_hadamard(v.matrix()));
     // Case (ii) stays listed and unbuilt.
-    assert!(!super::build::implemented(
-        Method::Yamada,
-        &Default::default()
-    ));
+    assert!(!Construction::Yamada {
+        case: YamadaCase::Second,
+        q: 13
+    }
+    .implemented());
 }

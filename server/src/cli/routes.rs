@@ -72,7 +72,7 @@ fn print_info(info: &OrderInfo, limit: usize) {
 }
 
 fn method_name(s: &Step) -> String {
-    serde_json::to_value(s.method)
+    serde_json::to_value(s.method())
         .ok()
         .and_then(|v| v.as_str().map(str::to_string))
         .unwrap_or_default()
@@ -80,7 +80,7 @@ fn method_name(s: &Step) -> String {
 
 fn print_step(s: &Step, indent: usize) {
     let params: Vec<String> = s
-        .params
+        .params()
         .iter()
         .filter(|(k, _)| {
             !matches!(
