@@ -558,15 +558,12 @@ fn DimensionAnswer(d: u64) -> impl IntoView {
 
 /// One node of a route tree, with its children.
 pub fn node_view(v: &Step, top: u64) -> AnyView {
-    let method = name_of(&v.method);
+    let method = name_of(&v.method());
     let order = v.order;
     let buildable = v.buildable;
     let reference = v.reference.clone();
     // The parameters are shown generically, as the recipe writes them.
-    let params = match serde_json::to_value(&v.params) {
-        Ok(Value::Object(o)) => o,
-        _ => Default::default(),
-    };
+    let params = v.params();
     let kind = params
         .get("kind")
         .and_then(Value::as_str)
