@@ -167,6 +167,10 @@ fn every_endpoint_answers_as_its_snapshot() {
 
     // Orders.
     let o12: OrderAnswer = t.get("order_12", "/api/orders/12");
+    // The plain form the page reads is the typed one the planner writes.
+    let typed: hadamard_core::route::OrderInfo =
+        serde_json::from_value(serde_json::to_value(&o12).unwrap()).unwrap();
+    assert_eq!(typed.routes.len(), o12.routes.len());
     assert_eq!(o12.status, hadamard_core::route::Status::Constructible);
     // 6 is not 1, 2 or a multiple of 4: no Hadamard matrix of order 6 exists (the standard
     // necessary condition; common practice).
@@ -196,6 +200,14 @@ fn every_endpoint_answers_as_its_snapshot() {
 
     // The stored matrix: metadata, every download, a row.
     let info: MatrixInfo = t.get("matrix_12", &format!("/api/matrices/{id}"));
+    // Its recipe, as the answer gives it, replays to the same matrix.
+    let recipe: hadamard_core::route::Recipe =
+        serde_json::from_value(serde_json::to_value(info.provenance.recipe().unwrap()).unwrap())
+            .unwrap();
+    assert_eq!(
+        hadamard_core::route::build_recipe(&recipe).unwrap().id(),
+        id
+    );
     assert_eq!(
         info.downloads
             .keys()

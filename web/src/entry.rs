@@ -161,7 +161,7 @@ fn made_by(prov: &Provenance) -> String {
         Provenance::Constructed { .. } => {
             let method = prov
                 .recipe()
-                .map(|r| crate::words::method_name(&name_of(&r.tree.method())))
+                .map(|r| crate::words::method_name(&name_of(&r.tree.method)))
                 .unwrap_or_else(|| "a construction".into());
             format!("built by {method} and checked exactly by the Hadamard Registry")
         }

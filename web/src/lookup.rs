@@ -12,10 +12,11 @@ use crate::api::{self, Answer};
 use crate::app::navigate;
 use crate::words::{self, method_name, status_label, status_sentence, yields_matrix};
 use hadamard_core::query::{self, Kind, Lookup};
-use hadamard_core::route::{Factoring, Route, Status, Step};
+use hadamard_core::route::{Factoring, Status};
 use hadamard_core::verify::Properties;
 use hadamard_core::wire::{
     name_of, CatalogueMatrix, DimensionAnswer, IdPrefixAnswer, MatrixList, OrderAnswer, Origin,
+    RouteView, StepView,
 };
 use leptos::prelude::*;
 use leptos::task::spawn_local;
@@ -557,13 +558,13 @@ fn DimensionAnswer(d: u64) -> impl IntoView {
 }
 
 /// One node of a route tree, with its children.
-pub fn node_view(v: &Step, top: u64) -> AnyView {
-    let method = name_of(&v.method());
+pub fn node_view(v: &StepView, top: u64) -> AnyView {
+    let method = name_of(&v.method);
     let order = v.order;
     let buildable = v.buildable;
     let reference = v.reference.clone();
     // The parameters are shown generically, as the recipe writes them.
-    let params = v.params();
+    let params = v.params.clone();
     let kind = params
         .get("kind")
         .and_then(Value::as_str)
@@ -610,7 +611,7 @@ pub fn node_view(v: &Step, top: u64) -> AnyView {
     .into_any()
 }
 
-fn route_view(i: usize, r: &Route, n: u64, over: bool) -> impl IntoView {
+fn route_view(i: usize, r: &RouteView, n: u64, over: bool) -> impl IntoView {
     let method = name_of(&r.method);
     let buildable = r.buildable;
     let dense = Some(r.largest_dense_factor);

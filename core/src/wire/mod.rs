@@ -16,20 +16,67 @@
 pub mod endpoints;
 
 use crate::formats::Location;
-use crate::route::{Recipe, Status};
+use crate::route::{Method, Status};
 use crate::verify::{Properties, Report};
 use serde::{Deserialize, Serialize};
 use serde_json::Value;
 use std::collections::BTreeMap;
 
-/// `GET /api/orders/{n}` and `GET /api/smallest-known`: the `routes --json` object.
-pub type OrderAnswer = crate::route::OrderInfo;
+/// `GET /api/orders/{n}` and `GET /api/smallest-known`: the `routes --json` object (the server
+/// writes [`crate::route::OrderInfo`]; readers take it as [`OrderView`]).
+pub type OrderAnswer = OrderView;
 /// `GET /api/dimensions/{d}`.
 pub type DimensionAnswer = crate::route::Advice;
 /// `GET /api/equivalence`: the `equiv --json` object.
 pub type EquivalenceAnswer = crate::derive::equivalence::EquivalenceReport;
 /// `GET /api/matrices/{id}/derive/sequency`.
 pub type SequencyAnswer = crate::derive::ordering::SequencyReport;
+
+/// A route step as the recipe format (`hadamard-recipe/1`) writes it, read as plain data: the
+/// construction's name, and its parameters as the recipe's JSON object. For readers that show
+/// a route rather than build it (the page), so that they carry no copy of the typed step's
+/// checks: [`crate::route::Step`] is the step, and a test checks that every route the planner
+/// writes reads into this form and writes back unchanged.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct StepView {
+    pub method: Method,
+    pub order: u64,
+    pub params: serde_json::Map<String, Value>,
+    pub reference: String,
+    pub children: Vec<StepView>,
+    pub buildable: bool,
+}
+
+/// A recipe ([`crate::route::Recipe`]) read as plain data.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct RecipeView {
+    pub format: String,
+    pub order: u64,
+    pub id: Option<String>,
+    pub tree: StepView,
+}
+
+/// A route ([`crate::route::Route`]) read with its tree as plain data.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct RouteView {
+    pub method: Method,
+    pub tree: StepView,
+    pub buildable: bool,
+    pub cost: f64,
+    pub largest_dense_factor: u64,
+    pub ingredients: Vec<String>,
+    pub skew: bool,
+}
+
+/// The `routes --json` object ([`crate::route::OrderInfo`]) read with its trees as plain data.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct OrderView {
+    pub order: u64,
+    pub status: Status,
+    pub routes: Vec<RouteView>,
+    pub note: String,
+    pub literature: Option<String>,
+}
 
 /// What kind of failure an error answer reports, when a program may want to tell them apart.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
@@ -119,7 +166,7 @@ pub enum Provenance {
     /// Built by this program: when, and the recipe that replays it (`null` if unreadable).
     Constructed {
         constructed_at: String,
-        recipe: Option<Recipe>,
+        recipe: Option<RecipeView>,
     },
     /// Uploaded: when, and the format it was read as.
     Uploaded {
@@ -130,7 +177,7 @@ pub enum Provenance {
 
 impl Provenance {
     /// The recipe of a constructed matrix.
-    pub fn recipe(&self) -> Option<&Recipe> {
+    pub fn recipe(&self) -> Option<&RecipeView> {
         match self {
             Provenance::Constructed { recipe, .. } => recipe.as_ref(),
             Provenance::Uploaded { .. } => None,
@@ -169,7 +216,7 @@ pub struct CatalogueMatrix {
     /// True when this request built and stored it.
     pub built_now: bool,
     /// The recipe that replays it (`route::build_recipe`), `null` if unreadable.
-    pub recipe: Option<Recipe>,
+    pub recipe: Option<RecipeView>,
 }
 
 /// How a stored matrix first reached the catalogue, in listings.
@@ -267,7 +314,7 @@ pub struct InvariantInfo {
 pub struct CatalogueRef {
     pub order: u64,
     pub built_at: String,
-    pub recipe: Option<Recipe>,
+    pub recipe: Option<RecipeView>,
 }
 
 /// Links to every derived object of a stored matrix (`{k}` and `{other id}` are to be filled).
@@ -463,6 +510,23 @@ pub fn status_from_name(s: &str) -> Option<Status> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Every order's `routes` object up to 300 (and a few larger ones) reads into
+    /// [`OrderView`] and writes back as the same JSON: the plain form is the typed one's.
+    #[test]
+    fn views_are_the_typed_routes() {
+        for n in (1..=300).chain([668, 1852, 4096, 13696]) {
+            let info = crate::route::order_info(n);
+            let typed = serde_json::to_value(&info).unwrap();
+            let view: OrderView = serde_json::from_value(typed.clone()).unwrap();
+            assert_eq!(serde_json::to_value(&view).unwrap(), typed, "order {n}");
+            for r in &info.routes {
+                let recipe = serde_json::to_value(crate::route::recipe_for(r)).unwrap();
+                let view: RecipeView = serde_json::from_value(recipe.clone()).unwrap();
+                assert_eq!(serde_json::to_value(&view).unwrap(), recipe, "order {n}");
+            }
+        }
+    }
 
     /// The wire names are the ones `docs/api.md` documents (this program's own contract): an
     /// error with a location, the provenance tagged by `kind`, a listing's origin.
