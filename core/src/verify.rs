@@ -31,6 +31,7 @@
 
 use crate::matrix::Matrix;
 
+mod checked;
 mod kernel;
 mod pass;
 mod report;
@@ -39,6 +40,7 @@ mod sliced;
 #[cfg(test)]
 mod tests;
 
+pub use checked::{check_with, Checked};
 pub use kernel::Kernel;
 pub use pass::Progressive;
 use pass::{gram_pass, PairTally};

@@ -45,6 +45,11 @@ def write(h, path, fmt):
         np.savetxt(path, h, fmt="%d", delimiter=",")
     elif fmt == "pm":
         Path(path).write_text(canonical(h))
+    elif fmt == "pm-crlf":
+        # Not the canonical text, so the id is hashed from the matrix, not from the file.
+        Path(path).write_bytes(canonical(h).replace("\n", "\r\n").encode())
+    elif fmt == "pm-nonl":
+        Path(path).write_text(canonical(h)[:-1])
     elif fmt == "json":
         Path(path).write_text(json.dumps(h.astype(int).tolist()))
     elif fmt == "bits":
@@ -76,7 +81,7 @@ CASES = [
 ]
 
 
-@pytest.mark.parametrize("fmt", ["pm", "csv", "npy", "npy-f8", "json", "bits"])
+@pytest.mark.parametrize("fmt", ["pm", "pm-crlf", "pm-nonl", "csv", "npy", "npy-f8", "json", "bits"])
 @pytest.mark.parametrize("name,h", CASES, ids=[c[0] for c in CASES])
 def test_verdict_id_and_properties_agree_with_numpy(tmp_path, name, h, fmt):
     path = tmp_path / f"{name}.{fmt.split('-')[0]}"

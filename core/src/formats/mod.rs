@@ -75,6 +75,7 @@
 mod json;
 mod npy;
 mod picture;
+mod pm_simd;
 mod rows;
 mod sniff;
 mod text;

@@ -332,7 +332,14 @@ pub(super) fn bits_header(comment: &[u8]) -> Option<Result<bool, ()>> {
 fn pack(kind: Kind, row: &[u8], one_is_negative: bool, out: &mut [u64]) -> bool {
     match kind {
         // '+' = 0x2B and '-' = 0x2D: XOR with '+' leaves 0x00 or 0x06; bit 2 marks '-'.
-        Kind::Pm => pack_swar(row, out, 0x2B, 0x06, 2, false),
+        Kind::Pm => {
+            let full = row.len() / 64;
+            match super::pm_simd::pack_full_words(row, out) {
+                Some(true) => pack_swar(&row[full * 64..], &mut out[full..], 0x2B, 0x06, 2, false),
+                Some(false) => false,
+                None => pack_swar(row, out, 0x2B, 0x06, 2, false),
+            }
+        }
         // '0' = 0x30 and '1' = 0x31: XOR with '0' leaves 0x00 or 0x01; bit 0 marks '1'.
         Kind::Bits => pack_swar(row, out, 0x30, 0x01, 0, !one_is_negative),
         Kind::Int => false,
@@ -474,7 +481,8 @@ mod tests {
 
     #[test]
     fn swar_agrees_with_the_slow_path() {
-        for len in [1usize, 7, 8, 9, 63, 64, 65, 130] {
+        // Lengths and bad places on both sides of the AVX2 path's 32- and 64-byte blocks.
+        for len in [1usize, 7, 8, 9, 31, 32, 33, 63, 64, 65, 127, 128, 130, 200] {
             let row: Vec<u8> = (0..len)
                 .map(|j| if (j * 7 + j / 3) % 3 == 0 { b'-' } else { b'+' })
                 .collect();
@@ -498,7 +506,10 @@ mod tests {
             for (j, &c) in row.iter().enumerate() {
                 assert_eq!((again[j / 64] >> (j % 64)) & 1 == 1, c == b'+');
             }
-            for k in [0, len / 2, len - 1] {
+            for k in [0, len / 2, len - 1, 31, 32, 63, 64, 100, 127] {
+                if k >= len {
+                    continue;
+                }
                 for bad in [b'*', b')', b'/', b'1', b' ', 0xAB, b'+' | 0x80] {
                     let mut r = row.clone();
                     r[k] = bad;

@@ -74,14 +74,20 @@ impl Kernel {
         }
     }
 
-    /// The fastest kernel this CPU has: the bit-sliced kernel where there is one (AVX-512,
-    /// then AVX2, then simd128 in wasm32), else the widest tile.
+    /// The fastest kernel this CPU has, as measured (`cargo bench -p hadamard-core --bench
+    /// verify`, docs/performance.md): the AVX-512 VPOPCNTDQ tile where the CPU has it (on an
+    /// Intel Xeon of the Sapphire Rapids class it beat the AVX-512 bit-sliced kernel at every
+    /// order from 1024 to 8192, whose panel waits in L2 there: 25.9 against 32.0 ms at 4096
+    /// on a quiet machine), else the bit-sliced kernel (AVX-512, then AVX2, then simd128 in
+    /// wasm32; with AVX2 alone 55 ms against 145 ms for the POPCNT tile at 4096), else the
+    /// POPCNT tile. [`Kernel::for_shape`] then picks a tile for the shapes a sliced kernel
+    /// does not take.
     pub fn best() -> Kernel {
         [
+            Kernel::Avx512Tile,
             Kernel::Avx512Sliced,
             Kernel::Avx2Sliced,
             Kernel::Simd128Sliced,
-            Kernel::Avx512Tile,
             Kernel::Popcnt,
         ]
         .into_iter()

@@ -4,12 +4,15 @@
 //! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
-use super::input::{read_input, InputArgs, InputError};
+use super::input::{parse_input, read_bytes, InputArgs, InputError, DEFAULT_MAX_BYTES};
 use super::progress::Spinner;
+use hadamard_core::formats::Format;
+use hadamard_core::id::{canonical_text_id, matrix_id};
 use hadamard_core::json;
 use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
 use std::process::ExitCode;
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Instant;
 
 #[derive(clap::Args)]
@@ -51,13 +54,41 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             .report(args.json);
         }
     };
-    let parsed = match read_input(&args.input) {
-        Ok(p) => p,
+    let bytes = match read_bytes(&args.input.path, DEFAULT_MAX_BYTES) {
+        Ok(b) => b,
         Err(e) => return e.report(args.json),
     };
-    let start = Instant::now();
-    let report = verify::verify_with(&parsed.matrix, args.max_pairs, kernel);
-    let elapsed = start.elapsed();
+    // While this thread parses and checks (on every core), another hashes the id straight
+    // from the file when the file is the canonical text, as a `pm` file written by this
+    // project is; otherwise the id is hashed from the parsed matrix afterwards.
+    let stop = AtomicBool::new(false);
+    let (parsed, report, elapsed) = match std::thread::scope(|s| {
+        let hasher = s.spawn(|| canonical_text_id(&bytes, &stop));
+        let parsed = match parse_input(&bytes, &args.input) {
+            Ok(p) => p,
+            Err(e) => {
+                stop.store(true, Ordering::Relaxed);
+                return Err(e);
+            }
+        };
+        let start = Instant::now();
+        let m = &parsed.matrix;
+        let checked = verify::check_with(m, args.max_pairs, kernel);
+        let id = match hasher.join() {
+            Ok(Some((id, rows, cols)))
+                if parsed.format == Format::Pm && (rows, cols) == (m.rows(), m.cols()) =>
+            {
+                id
+            }
+            _ => matrix_id(m),
+        };
+        let report = checked.report(id);
+        Ok((parsed, report, start.elapsed()))
+    }) {
+        Ok(r) => r,
+        Err(e) => return e.report(args.json),
+    };
+    drop(bytes);
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
     let spin = (!parsed.erasures.is_empty()).then(|| {
         Spinner::start(&format!(
