@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Regenerates docs/coverage.md from the `hadamard` binary: the coverage counts, and for every
 known order this program cannot build yet, its best published route, what that route lacks, and
-what the multiplier search (`hadamard search gs --v V --multiplier G`) found for the quadruples of
+what the multiplier search (`hadamard search gs --length V --multiplier G`) found for the quadruples of
 length v = n/4 that would give it directly.
 
     cargo build --release -p hadamard-server
@@ -59,7 +59,7 @@ def lacks(route):
 
 
 def multiplier_report(v):
-    listing = run("search", "gs", "--v", str(v)).stderr
+    listing = run("search", "gs", "--length", str(v)).stderr
     groups = [(g, int(k)) for g, k in re.findall(r"--multiplier ([\d,]+)\s+a group of \d+ multipliers, (\d+) orbits", listing)]
     tried, next_up = [], None
     for g, k in groups:
@@ -67,7 +67,7 @@ def multiplier_report(v):
             next_up = next_up or (g, k)
             continue
         try:
-            r = run("search", "gs", "--v", str(v), "--multiplier", g, "--all", "--json", "--quiet", timeout=TIMEOUT)
+            r = run("search", "gs", "--length", str(v), "--multiplier", g, "--all", "--json", "--quiet", timeout=TIMEOUT)
             found = len(json.loads(r.stdout)["results"]) if r.returncode == 0 else None
         except subprocess.TimeoutExpired:
             found = None

@@ -4,7 +4,7 @@
 # shard has succeeded. Prints the two job ids.
 #
 #   contrib/slurm/submit.sh RUN_DIR K SEARCH-ARGS...
-#   contrib/slurm/submit.sh /shared/w35 16 williamson --order 35 --classes
+#   contrib/slurm/submit.sh /shared/w35 16 williamson --length 35 --classes
 #
 # RUN_DIR must be shared storage. Set HADAMARD to the binary's path if `hadamard` is not on
 # the nodes' PATH; extra sbatch options go in SBATCH_* variables (SBATCH_PARTITION,

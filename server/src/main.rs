@@ -1,8 +1,9 @@
 //! `hadamard`: the command line of the Hadamard Registry, and its server.
 //!
 //! Every command is a thin shell over `hadamard-core`: it reads its input, calls core, and
-//! prints for people (or, with `--json`, for programs). Exit statuses follow
-//! `docs/cli.md`; usage errors exit 2.
+//! prints for people (or, with `--json`, for programs). Each returns how it ended, and
+//! `cli::error` turns that into the exit status through its one table (`docs/cli.md`); usage
+//! errors exit 2, as clap's do.
 
 mod api;
 mod app;
@@ -26,7 +27,8 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
-    /// Check a matrix exactly: is H·Hᵀ = nI? Exit 0 yes, 1 a ±1 matrix that is not, 2 unreadable.
+    /// Check a matrix exactly: is H·Hᵀ = nI? Exit 0 yes, 1 a ±1 matrix that is not, 2 unreadable
+    /// or malformed.
     Verify(cli::verify::VerifyArgs),
     /// Convert a matrix between formats, optionally normalising it.
     Convert(cli::convert::ConvertArgs),
@@ -62,14 +64,41 @@ fn default_sigpipe() {
     }
 }
 
+impl Command {
+    /// Whether the answer asked for is JSON: then a failure is also one JSON object on stdout.
+    fn json(&self) -> bool {
+        match self {
+            Command::Verify(a) => a.json(),
+            Command::Routes(a) => a.json(),
+            Command::Coverage(a) => a.json(),
+            Command::Advise(a) => a.json(),
+            Command::Audit(a) => a.json(),
+            Command::Derive(a) => a.json(),
+            Command::Equiv(a) => a.json(),
+            Command::Search(a) => a.json(),
+            Command::Convert(_) | Command::Build(_) | Command::Serve(_) => false,
+        }
+    }
+}
+
 fn main() -> ExitCode {
-    let cli = Cli::parse();
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => {
+            // Before the arguments parse, `--json` among them is the only sign of a program.
+            let json = std::env::args_os()
+                .take_while(|a| a != "--")
+                .any(|a| a == "--json");
+            return cli::error::clap_failed(e, json);
+        }
+    };
     // The server keeps Rust's default (SIGPIPE ignored): a client hanging up must not end it.
     #[cfg(unix)]
     if !matches!(cli.command, Command::Serve(_)) {
         default_sigpipe();
     }
-    match cli.command {
+    let json = cli.command.json();
+    let result = match cli.command {
         Command::Verify(a) => cli::verify::run(a),
         Command::Convert(a) => cli::convert::run(a),
         Command::Routes(a) => cli::routes::run(a),
@@ -81,7 +110,8 @@ fn main() -> ExitCode {
         Command::Search(a) => cli::search::run(a),
         Command::Derive(a) => cli::derive::run(a),
         Command::Equiv(a) => cli::equiv::run(a),
-    }
+    };
+    cli::error::finish(result, json)
 }
 
 #[cfg(test)]
@@ -164,6 +194,37 @@ mod tests {
         assert_eq!(
             s.get_one::<String>("input_format").map(String::as_str),
             Some("int")
+        );
+    }
+
+    #[test]
+    fn derive_ordering_takes_row_order_and_its_old_spelling() {
+        // `order` means the matrix order only; the row order is `--row-order`, and the old
+        // `--order` still works (hidden from --help).
+        for flag in ["--row-order", "--order"] {
+            let m = Cli::command()
+                .try_get_matches_from(["hadamard", "derive", "ordering", flag, "sequency", "h.txt"])
+                .expect("parses");
+            let o = m
+                .subcommand_matches("derive")
+                .and_then(|d| d.subcommand_matches("ordering"))
+                .expect("derive ordering");
+            assert_eq!(
+                o.get_one::<String>("row_order").map(String::as_str),
+                Some("sequency"),
+                "{flag}"
+            );
+        }
+        let mut cmd = Cli::command();
+        let help = cmd
+            .find_subcommand_mut("derive")
+            .and_then(|d| d.find_subcommand_mut("ordering"))
+            .expect("derive ordering")
+            .render_long_help()
+            .to_string();
+        assert!(
+            help.contains("--row-order") && !help.contains("--order <"),
+            "{help}"
         );
     }
 

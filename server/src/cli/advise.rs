@@ -5,8 +5,8 @@
 //! only an m₀×m₀ dense part). `--at-least K` gives the smallest order ≥ K that is known, and the
 //! smallest this program can build.
 
+use super::error::{CliError, Kind};
 use hadamard_core::route;
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct AdviseArgs {
@@ -26,7 +26,13 @@ pub struct AdviseArgs {
     at_least: Option<u64>,
 }
 
-pub fn run(args: AdviseArgs) -> ExitCode {
+impl AdviseArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(args: AdviseArgs) -> Result<Kind, CliError> {
     if let Some(d) = args.dimension {
         let a = route::dimension_advice(d);
         if args.json {
@@ -50,7 +56,7 @@ pub fn run(args: AdviseArgs) -> ExitCode {
                 );
             }
         }
-        return ExitCode::SUCCESS;
+        return Ok(Kind::Done);
     }
     let k = args.at_least.unwrap_or(1);
     let (known, built, v) = hadamard_core::json::smallest_at_least(k);
@@ -83,7 +89,7 @@ pub fn run(args: AdviseArgs) -> ExitCode {
             ),
         }
     }
-    ExitCode::SUCCESS
+    Ok(Kind::Done)
 }
 
 fn status_name<T: serde::Serialize>(s: &T) -> String {

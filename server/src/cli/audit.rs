@@ -9,6 +9,7 @@
 //! matrix passes (there must never be one that fails), 1 when any fails, 2 when the database
 //! cannot be read. The file is opened read-only; a running server can keep serving.
 
+use super::error::{CliError, Kind};
 use crate::catalogue::certify_stored;
 use crate::store::{self, Mode, Store, StoreError};
 use hadamard_core::verify;
@@ -16,7 +17,6 @@ use rusqlite::types::ValueRef;
 use rusqlite::Connection;
 use serde_json::{json, Value};
 use std::path::PathBuf;
-use std::process::ExitCode;
 use std::time::Instant;
 
 #[derive(clap::Args)]
@@ -29,15 +29,16 @@ pub struct AuditArgs {
     json: bool,
 }
 
-pub fn run(args: AuditArgs) -> ExitCode {
+impl AuditArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(args: AuditArgs) -> Result<Kind, CliError> {
     let start = Instant::now();
-    let store = match Store::open(&args.db, Mode::ReadOnly, 1) {
-        Ok(s) => s,
-        Err(e) => {
-            eprintln!("hadamard: cannot open {}: {e}", args.db.display());
-            return ExitCode::from(2);
-        }
-    };
+    let store = Store::open(&args.db, Mode::ReadOnly, 1)
+        .map_err(|e| CliError::unreadable(format!("cannot open {}: {e}", args.db.display())))?;
     let mut report = Report::default();
     let walked = store.read(|c| {
         audit_matrices(c, &mut report)?;
@@ -47,8 +48,10 @@ pub fn run(args: AuditArgs) -> ExitCode {
     });
     let integrity = store.read(store::integrity_check);
     if let Err(e) = walked {
-        eprintln!("hadamard: cannot read {}: {e}", args.db.display());
-        return ExitCode::from(2);
+        return Err(CliError::unreadable(format!(
+            "cannot read {}: {e}",
+            args.db.display()
+        )));
     }
     let integrity = match integrity {
         Ok(v) => v,
@@ -91,11 +94,7 @@ pub fn run(args: AuditArgs) -> ExitCode {
             if sqlite_ok { "ok" } else { "NOT ok" }
         );
     }
-    if ok {
-        ExitCode::SUCCESS
-    } else {
-        ExitCode::from(1)
-    }
+    Ok(if ok { Kind::Done } else { Kind::AuditFailed })
 }
 
 #[derive(Default)]

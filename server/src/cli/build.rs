@@ -3,13 +3,13 @@
 //! Exit 0: written (the matrix passed the exact check). Exit 3: no implemented route for N;
 //! the message says why and what is known. Exit 2: usage or I/O errors.
 
+use super::error::{json_location, CliError, Kind};
 use super::output::{open_output, parse_write_format};
 use super::progress::Spinner;
 use super::routes::status_words;
 use hadamard_core::route::{self, BuildError, Recipe, Route};
 use hadamard_core::verify::Verified;
 use std::io::Write;
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct BuildArgs {
@@ -37,40 +37,34 @@ pub struct BuildArgs {
     bits_minus: String,
 }
 
-pub fn run(args: BuildArgs) -> ExitCode {
-    let format = match parse_write_format(&args.format, args.bits_minus == "1") {
-        Ok(f) => f,
-        Err(m) => return fail(2, &m),
-    };
+pub fn run(args: BuildArgs) -> Result<Kind, CliError> {
+    let format =
+        parse_write_format(&args.format, args.bits_minus == "1").map_err(CliError::usage)?;
     let (recipe, built) = match &args.recipe {
-        Some(path) => match replay(path) {
-            Ok(x) => x,
-            Err(code) => return code,
-        },
+        Some(path) => {
+            let (recipe, built) = replay(path)?;
+            (recipe, built.map_err(|e| build_failed(e, true))?)
+        }
         None => {
             let n = args.order.unwrap_or(0);
-            let route = match choose_route(n, args.route.as_deref()) {
-                Ok(r) => r,
-                Err(code) => return code,
-            };
+            let route = choose_route(n, args.route.as_deref())?;
             let spinner =
                 Spinner::start(&format!("building order {n} by {}", method_label(&route)));
             let built = route::build(&route);
             spinner.finish();
-            (route::recipe_for(&route), built)
+            (
+                route::recipe_for(&route),
+                built.map_err(|e| build_failed(e, false))?,
+            )
         }
     };
-    let v = match built {
-        Ok(v) => v,
-        Err(e) => return build_failed(e),
-    };
+    let v = built;
     if let Some(path) = &args.emit_recipe {
         let mut pinned = recipe;
         pinned.id = Some(v.id().to_string());
         let text = serde_json::to_string_pretty(&pinned).unwrap_or_default();
-        if let Err(e) = std::fs::write(path, text + "\n") {
-            return fail(2, &format!("cannot write {path}: {e}"));
-        }
+        std::fs::write(path, text + "\n")
+            .map_err(|e| CliError::io(format!("cannot write {path}: {e}")))?;
     }
     write(&v, &format, args.output.as_deref())
 }
@@ -82,7 +76,7 @@ fn method_label(r: &Route) -> String {
         .unwrap_or_default()
 }
 
-fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
+fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, CliError> {
     let info = route::order_info(n);
     let buildable: Vec<&Route> = info.routes.iter().filter(|r| r.buildable).collect();
     if buildable.is_empty() {
@@ -103,14 +97,16 @@ fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
                 r.tree.reference
             );
         }
-        return Err(fail(3, &msg));
+        return Err(CliError::new(Kind::NoRoute, msg)
+            .with("order", n)
+            .with("status", info.status));
     }
     match choice {
         None => Ok(buildable[0].clone()),
         Some(c) => {
             if let Ok(k) = c.parse::<usize>() {
                 return info.routes.get(k.wrapping_sub(1)).filter(|r| r.buildable).cloned().ok_or_else(|| {
-                    fail(2, &format!("route {c} of order {n} is not a buildable route; see `hadamard routes {n}`"))
+                    CliError::usage(format!("route {c} of order {n} is not a buildable route; see `hadamard routes {n}`"))
                 });
             }
             buildable
@@ -118,51 +114,60 @@ fn choose_route(n: u64, choice: Option<&str>) -> Result<Route, ExitCode> {
                 .find(|r| method_label(r) == c)
                 .map(|r| (*r).clone())
                 .ok_or_else(|| {
-                    fail(
-                        2,
-                        &format!(
-                            "no buildable `{c}` route for order {n}; see `hadamard routes {n}`"
-                        ),
-                    )
+                    CliError::usage(format!(
+                        "no buildable `{c}` route for order {n}; see `hadamard routes {n}`"
+                    ))
                 })
         }
     }
 }
 
-fn replay(path: &str) -> Result<(Recipe, Result<Verified, BuildError>), ExitCode> {
-    let text =
-        std::fs::read_to_string(path).map_err(|e| fail(2, &format!("cannot read {path}: {e}")))?;
-    let recipe: Recipe =
-        serde_json::from_str(&text).map_err(|e| fail(2, &format!("{path}: not a recipe: {e}")))?;
+fn replay(path: &str) -> Result<(Recipe, Result<Verified, BuildError>), CliError> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| CliError::unreadable(format!("cannot read {path}: {e}")))?;
+    let recipe: Recipe = serde_json::from_str(&text).map_err(|e| {
+        // serde_json says `… at line L column C`; the place goes first, as for matrices.
+        let what = e.to_string();
+        let what = what.split(" at line ").next().unwrap_or(&what);
+        CliError::at(
+            Kind::BadRecipe,
+            json_location(&e),
+            &format!("not a recipe: {what}"),
+        )
+        .in_file(path)
+    })?;
     let spinner = Spinner::start(&format!("replaying the recipe for order {}", recipe.order));
     let built = route::build_recipe(&recipe);
     spinner.finish();
     Ok((recipe, built))
 }
 
-fn build_failed(e: BuildError) -> ExitCode {
-    match e {
+/// A build that failed: no route (exit 3), or a recipe that does not replay; a planned route
+/// whose construction fails is a bug.
+fn build_failed(e: BuildError, from_recipe: bool) -> CliError {
+    let kind = match e {
         BuildError::NoRoute { .. }
         | BuildError::NotBuildable { .. }
-        | BuildError::TooLarge { .. } => fail(3, &e.to_string()),
-        other => fail(2, &other.to_string()),
-    }
+        | BuildError::TooLarge { .. } => Kind::NoRoute,
+        BuildError::BadRecipe(_) | BuildError::IdMismatch { .. } => Kind::BadRecipe,
+        BuildError::Construct { .. } if from_recipe => Kind::BadRecipe,
+        BuildError::Construct { .. } => Kind::Internal,
+    };
+    CliError::new(kind, e.to_string())
 }
 
 fn write(
     v: &Verified,
     format: &hadamard_core::formats::WriteFormat,
     path: Option<&str>,
-) -> ExitCode {
-    let mut out = match open_output(path) {
-        Ok(o) => o,
-        Err(e) => return fail(2, &format!("cannot open the output: {e}")),
-    };
+) -> Result<Kind, CliError> {
+    let mut out =
+        open_output(path).map_err(|e| CliError::io(format!("cannot open the output: {e}")))?;
     if let Err(e) =
         hadamard_core::formats::write_to(v.matrix(), format, &mut out).and_then(|_| out.flush())
     {
         if e.kind() != std::io::ErrorKind::BrokenPipe {
-            return fail(2, &format!("cannot write: {e}"));
+            return Err(CliError::io(format!("cannot write: {e}")));
         }
     }
     if path.is_some() {
@@ -172,10 +177,5 @@ fn write(
             v.id()
         );
     }
-    ExitCode::SUCCESS
-}
-
-fn fail(code: u8, msg: &str) -> ExitCode {
-    eprintln!("hadamard: {msg}");
-    ExitCode::from(code)
+    Ok(Kind::Done)
 }

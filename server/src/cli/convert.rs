@@ -4,10 +4,10 @@
 //! result is equivalent to the input (and Hadamard exactly when the input is). The verdict of
 //! the exact check on the output is printed on stderr, so a conversion never hides a bad matrix.
 
+use super::error::{CliError, Kind};
 use super::input::{read_input, InputArgs};
 use super::output::{open_output, parse_write_format};
 use hadamard_core::verify;
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct ConvertArgs {
@@ -30,44 +30,27 @@ pub struct ConvertArgs {
     out_bits_minus: String,
 }
 
-pub fn run(mut args: ConvertArgs) -> ExitCode {
+pub fn run(mut args: ConvertArgs) -> Result<Kind, CliError> {
     if let Some(f) = args.format.take() {
         args.input.input_format = Some(f);
     }
-    let parsed = match read_input(&args.input) {
-        Ok(p) => p,
-        Err(e) => return e.report(false),
-    };
+    let parsed = read_input(&args.input)?;
     if !parsed.erasures.is_empty() {
-        eprintln!("hadamard: the input has {} erased entries (?); `hadamard verify` says whether they can be completed", parsed.erasures.len());
-        return ExitCode::from(2);
+        return Err(CliError::new(Kind::Incomplete, format!("the input has {} erased entries (?); `hadamard verify` says whether they can be completed", parsed.erasures.len())));
     }
-    let format = match parse_write_format(&args.to, args.out_bits_minus == "1") {
-        Ok(f) => f,
-        Err(m) => {
-            eprintln!("hadamard: {m}");
-            return ExitCode::from(2);
-        }
-    };
+    let format =
+        parse_write_format(&args.to, args.out_bits_minus == "1").map_err(CliError::usage)?;
     let m = if args.normalize {
         parsed.matrix.normalized()
     } else {
         parsed.matrix
     };
     let report = verify::verify(&m);
-    let mut out = match open_output(args.output.as_deref()) {
-        Ok(o) => o,
-        Err(e) => {
-            eprintln!("hadamard: {e}");
-            return ExitCode::from(2);
-        }
-    };
-    if let Err(e) =
-        hadamard_core::formats::write_to(&m, &format, &mut out).and_then(|_| out.flush())
-    {
-        eprintln!("hadamard: cannot write: {e}");
-        return ExitCode::from(2);
-    }
+    let mut out = open_output(args.output.as_deref())
+        .map_err(|e| CliError::io(format!("cannot open the output: {e}")))?;
+    hadamard_core::formats::write_to(&m, &format, &mut out)
+        .and_then(|_| out.flush())
+        .map_err(|e| CliError::io(format!("cannot write: {e}")))?;
     if report.hadamard {
         eprintln!(
             "wrote a Hadamard matrix of order {} (verified), id {}",
@@ -79,5 +62,5 @@ pub fn run(mut args: ConvertArgs) -> ExitCode {
             report.failing_pairs_total, report.sha256
         );
     }
-    ExitCode::SUCCESS
+    Ok(Kind::Done)
 }

@@ -1,8 +1,8 @@
 //! `hadamard coverage --max M`: the status of every order up to M.
 
+use super::error::{CliError, Kind};
 use hadamard_core::route::{self, Status};
 use serde_json::json;
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct CoverageArgs {
@@ -17,7 +17,13 @@ pub struct CoverageArgs {
     list: bool,
 }
 
-pub fn run(args: CoverageArgs) -> ExitCode {
+impl CoverageArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(args: CoverageArgs) -> Result<Kind, CliError> {
     let cov = route::coverage(args.max);
     if args.json {
         let v: Vec<_> = cov
@@ -25,7 +31,7 @@ pub fn run(args: CoverageArgs) -> ExitCode {
             .map(|(n, s)| json!({"order": n, "status": s}))
             .collect();
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
-        return ExitCode::SUCCESS;
+        return Ok(Kind::Done);
     }
     let count = |s: Status| cov.iter().filter(|(_, t)| *t == s).count();
     let known = count(Status::Constructible) + count(Status::Known);
@@ -72,5 +78,5 @@ pub fn run(args: CoverageArgs) -> ExitCode {
             );
         }
     }
-    ExitCode::SUCCESS
+    Ok(Kind::Done)
 }

@@ -6,7 +6,8 @@
 //! Exit 0 written · 1 the input is not a Hadamard matrix, or the object is not defined for it
 //! (sequency order of a matrix without distinct sequencies, say) · 2 unreadable input or usage.
 
-use super::input::{read_input, InputArgs, InputError};
+use super::error::{CliError, Kind as Outcome};
+use super::input::{read_input, InputArgs};
 use super::output::{open_output, parse_write_format};
 use hadamard_core::derive::block_design::symmetric_design;
 use hadamard_core::derive::brr::replication;
@@ -20,7 +21,6 @@ use hadamard_core::route;
 use hadamard_core::verify::{certify, Verified};
 use serde::Serialize;
 use std::io::Write;
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct DeriveArgs {
@@ -139,9 +139,10 @@ struct DesignArgs {
 
 #[derive(clap::Args)]
 struct OrderingArgs {
-    /// natural, sequency (Walsh) or dyadic (Paley).
-    #[arg(long, value_name = "O", default_value = "natural", value_parser = ["natural", "sequency", "dyadic"])]
-    order: String,
+    /// The order of the rows: natural, sequency (Walsh) or dyadic (Paley). Also spelt
+    /// `--order`, its name before `order` came to mean the matrix order only.
+    #[arg(long = "row-order", alias = "order", value_name = "O", default_value = "natural", value_parser = ["natural", "sequency", "dyadic"])]
+    row_order: String,
     /// Divide every entry by √n (float output: csv, json or npy-f64). Scaled is not normalised.
     #[arg(long)]
     scaled: bool,
@@ -168,49 +169,63 @@ struct RowArgs {
     input: InputArgs,
 }
 
-pub fn run(args: DeriveArgs) -> ExitCode {
-    let r = match args.kind {
+impl DeriveArgs {
+    /// Whether the answer asked for is JSON (then a failure is a JSON object on stdout too).
+    pub fn json(&self) -> bool {
+        match &self.kind {
+            Kind::Screening(a) => a.out.format() == "json",
+            Kind::Brr(a) => a.out.format() == "json",
+            Kind::Code(a) => a.out.format() == "json",
+            Kind::SymmetricDesign(a) => a.out.format() == "json",
+            Kind::Ordering(a) => a.format == "report" || a.format == "json",
+            Kind::Row(a) => a.format == "json",
+        }
+    }
+}
+
+pub fn run(args: DeriveArgs) -> Result<Outcome, CliError> {
+    match args.kind {
         Kind::Screening(a) => screening(a),
         Kind::Brr(a) => brr(a),
         Kind::Code(a) => code(a),
         Kind::SymmetricDesign(a) => design(a),
         Kind::Ordering(a) => ordering(a),
         Kind::Row(a) => row(a),
-    };
-    r.unwrap_or_else(|code| code)
+    }
 }
 
-fn fail(code: u8, msg: &str) -> ExitCode {
-    eprintln!("hadamard: {msg}");
-    ExitCode::from(code)
-}
-
-/// Reads the input and runs the exact check; a matrix that fails it gets exit 1.
-pub fn load_verified(input: &InputArgs, as_json: bool) -> Result<Verified, ExitCode> {
-    let parsed = read_input(input).map_err(|e| e.report(as_json))?;
+/// Reads the input and runs the exact check; a matrix that fails it is an error of kind
+/// `not_hadamard` (or `incomplete`, with erased entries).
+pub fn load_verified(input: &InputArgs) -> Result<Verified, CliError> {
+    // A place in which file: `equiv` reads two.
+    let parsed = read_input(input).map_err(|e| match e.kind {
+        Outcome::Malformed | Outcome::OverMaxOrder if input.path != "-" => e.in_file(&input.path),
+        _ => e,
+    })?;
     if !parsed.erasures.is_empty() {
-        return Err(fail(1, &format!("{}: the matrix has {} erased entries (?); `hadamard verify` says whether they can be completed", input.path, parsed.erasures.len())));
+        return Err(CliError::new(Outcome::Incomplete, format!("{}: the matrix has {} erased entries (?); `hadamard verify` says whether they can be completed", input.path, parsed.erasures.len())));
     }
     certify(parsed.matrix).map_err(|r| {
-        fail(1, &format!("{}: not a Hadamard matrix ({} of its row pairs are not orthogonal, or it is not square); `hadamard verify` says where", input.path, r.failing_pairs_total))
+        CliError::new(Outcome::NotHadamard, format!("{}: not a Hadamard matrix ({} of its row pairs are not orthogonal, or it is not square); `hadamard verify` says where", input.path, r.failing_pairs_total))
+            .with("failing_pairs_total", r.failing_pairs_total)
     })
 }
 
-fn derive_failed(e: DeriveError) -> ExitCode {
-    fail(1, &e.to_string())
+fn derive_failed(e: DeriveError) -> CliError {
+    CliError::new(Outcome::NotDefined, e.to_string()).with("parameter", &e.parameter)
 }
 
-/// Writes through the writer `-o` names, reporting a failure as exit 2.
+/// Writes through the writer `-o` names.
 fn emit(
     path: Option<&str>,
     f: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
-) -> Result<ExitCode, ExitCode> {
+) -> Result<Outcome, CliError> {
     let mut out =
-        open_output(path).map_err(|e| fail(2, &format!("cannot open the output: {e}")))?;
+        open_output(path).map_err(|e| CliError::io(format!("cannot open the output: {e}")))?;
     f(&mut out)
         .and_then(|_| out.flush())
-        .map_err(|e| fail(2, &format!("cannot write: {e}")))?;
-    Ok(ExitCode::SUCCESS)
+        .map_err(|e| CliError::io(format!("cannot write: {e}")))?;
+    Ok(Outcome::Done)
 }
 
 fn json_to(out: &mut dyn Write, v: &impl Serialize) -> std::io::Result<()> {
@@ -226,9 +241,8 @@ fn clock_seed() -> u64 {
     t ^ (std::process::id() as u64).rotate_left(32)
 }
 
-fn screening(a: ScreeningArgs) -> Result<ExitCode, ExitCode> {
-    let json = a.out.format() == "json";
-    let h = load_verified(&a.input, json)?;
+fn screening(a: ScreeningArgs) -> Result<Outcome, CliError> {
+    let h = load_verified(&a.input)?;
     let levels = match &a.levels {
         None => None,
         Some(v) => Some(
@@ -238,11 +252,10 @@ fn screening(a: ScreeningArgs) -> Result<ExitCode, ExitCode> {
                     p.split_once(':')
                         .map(|(l, h)| (l.to_owned(), h.to_owned()))
                         .ok_or_else(|| {
-                            InputError::Usage(format!(
+                            CliError::usage(format!(
                                 "--levels item {}: `{p}` is not LOW:HIGH",
                                 k + 1
                             ))
-                            .report(json)
                         })
                 })
                 .collect::<Result<Vec<_>, _>>()?,
@@ -352,30 +365,25 @@ fn yes(b: bool) -> &'static str {
     }
 }
 
-fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
-    let json = a.out.format() == "json";
+fn brr(a: BrrArgs) -> Result<Outcome, CliError> {
     let mut chosen = None;
     let h = match &a.path {
-        Some(p) => load_verified(
-            &InputArgs {
-                path: p.clone(),
-                input_format: None,
-                bits_minus: "1".into(),
-                max_order: 1 << 15,
-            },
-            json,
-        )?,
+        Some(p) => load_verified(&InputArgs::for_path(p))?,
         None => {
             let k = a.strata as u64;
             let known = route::smallest_known_at_least(k + 1).map(|i| i.order);
             let Some(built) = route::smallest_constructible_at_least(k + 1) else {
-                return Err(fail(
-                    3,
-                    &format!("no order greater than {k} is within this program's reach"),
+                return Err(CliError::new(
+                    Outcome::NoRoute,
+                    format!("no order greater than {k} is within this program's reach"),
                 ));
             };
-            let h = route::build_order(built.order)
-                .map_err(|e| fail(3, &format!("order {} could not be built: {e}", built.order)))?;
+            let h = route::build_order(built.order).map_err(|e| {
+                CliError::new(
+                    Outcome::NoRoute,
+                    format!("order {} could not be built: {e}", built.order),
+                )
+            })?;
             chosen = Some((known, built.order));
             h
         }
@@ -424,8 +432,8 @@ fn brr(a: BrrArgs) -> Result<ExitCode, ExitCode> {
     })
 }
 
-fn code(a: CodeArgs) -> Result<ExitCode, ExitCode> {
-    let h = load_verified(&a.input, a.out.format() == "json")?;
+fn code(a: CodeArgs) -> Result<Outcome, CliError> {
+    let h = load_verified(&a.input)?;
     let variant: CodeKind = a.variant.parse().map_err(derive_failed)?;
     let c = hadamard_code(&h, variant).map_err(derive_failed)?;
     emit(a.out.output.as_deref(), |out| match a.out.format() {
@@ -456,8 +464,8 @@ fn code(a: CodeArgs) -> Result<ExitCode, ExitCode> {
     })
 }
 
-fn design(a: DesignArgs) -> Result<ExitCode, ExitCode> {
-    let h = load_verified(&a.input, a.out.format() == "json")?;
+fn design(a: DesignArgs) -> Result<Outcome, CliError> {
+    let h = load_verified(&a.input)?;
     let d = symmetric_design(&h).map_err(derive_failed)?;
     emit(a.out.output.as_deref(), |out| match a.out.format() {
         "json" => json_to(out, &d),
@@ -486,26 +494,30 @@ fn design(a: DesignArgs) -> Result<ExitCode, ExitCode> {
     })
 }
 
-fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
-    let h = load_verified(&a.input, a.format == "report")?;
+fn ordering(a: OrderingArgs) -> Result<Outcome, CliError> {
+    let h = load_verified(&a.input)?;
     if a.format == "report" {
         let rep = sequency_report(h.matrix());
 
         return emit(a.output.as_deref(), |out| json_to(out, &rep));
     }
-    let order: RowOrder = a.order.parse().map_err(derive_failed)?;
+    let order: RowOrder = a.row_order.parse().map_err(derive_failed)?;
+    // Core names the parameter `order`; on the command line it is `--row-order`.
+    let derive_failed = |mut e: DeriveError| {
+        if e.parameter == "order" {
+            e.parameter = "row-order".into();
+        }
+        derive_failed(e)
+    };
     let scaled = if a.scaled {
         Some(match a.format.as_str() {
             "csv" => ScaledFormat::Csv,
             "json" => ScaledFormat::Json,
             "npy-f64" | "npy-f64-scaled" => ScaledFormat::Npy,
             f => {
-                return Err(fail(
-                    2,
-                    &format!(
-                        "--scaled writes floats: use --format csv, json or npy-f64, not `{f}`"
-                    ),
-                ))
+                return Err(CliError::usage(format!(
+                    "--scaled writes floats: use --format csv, json or npy-f64, not `{f}`"
+                )))
             }
         })
     } else {
@@ -513,7 +525,7 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
     };
     let plain = match scaled {
         Some(_) => None,
-        None => Some(parse_write_format(&a.format, true).map_err(|m| fail(2, &m))?),
+        None => Some(parse_write_format(&a.format, true).map_err(CliError::usage)?),
     };
     let r = reorder(&h, order).map_err(derive_failed)?;
     let code = emit(a.output.as_deref(), |out| match (scaled, &plain) {
@@ -534,18 +546,15 @@ fn ordering(a: OrderingArgs) -> Result<ExitCode, ExitCode> {
     Ok(code)
 }
 
-fn row(a: RowArgs) -> Result<ExitCode, ExitCode> {
-    let h = load_verified(&a.input, a.format == "json")?;
+fn row(a: RowArgs) -> Result<Outcome, CliError> {
+    let h = load_verified(&a.input)?;
     let n = h.order();
     if a.row >= n {
-        return Err(fail(
-            2,
-            &format!(
-                "--row {}: the matrix has order {n}, so its rows are 0 to {}",
-                a.row,
-                n.saturating_sub(1)
-            ),
-        ));
+        return Err(CliError::usage(format!(
+            "--row {}: the matrix has order {n}, so its rows are 0 to {}",
+            a.row,
+            n.saturating_sub(1)
+        )));
     }
     let m = h.matrix();
     match a.format.as_str() {
@@ -567,5 +576,5 @@ fn row(a: RowArgs) -> Result<ExitCode, ExitCode> {
             serde_json::json!({"id": h.id(), "order": n, "row": a.row, "index_base": 0, "values": (0..n).map(|j| m.get(a.row, j)).collect::<Vec<_>>()})
         ),
     }
-    Ok(ExitCode::SUCCESS)
+    Ok(Outcome::Done)
 }

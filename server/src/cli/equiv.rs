@@ -1,13 +1,13 @@
 //! `hadamard equiv A B`: are two Hadamard matrices equivalent?
 //!
 //! Exit 0 equivalent (the certificate has been checked) · 1 inequivalent (a differing invariant,
-//! or an exhaustive search) · 3 undecided within the node budget · 2 unreadable input or usage,
-//! or an input that is not a Hadamard matrix.
+//! or an exhaustive search), or an input that is not a Hadamard matrix (`kind` says which) ·
+//! 3 undecided within the node budget · 2 unreadable input or usage.
 
 use super::derive::load_verified;
+use super::error::{CliError, Kind};
 use super::input::InputArgs;
 use hadamard_core::derive::equivalence::{equivalence, Verdict, DEFAULT_NODE_BUDGET};
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct EquivArgs {
@@ -23,27 +23,22 @@ pub struct EquivArgs {
     budget: u64,
 }
 
-pub fn run(args: EquivArgs) -> ExitCode {
-    let input = |p: &str| InputArgs {
-        path: p.to_owned(),
-        input_format: None,
-        bits_minus: "1".into(),
-        max_order: 1 << 15,
-    };
-    let load = |p: &str| load_verified(&input(p), args.json).map_err(|_| ExitCode::from(2));
-    let (a, b) = match (load(&args.a), load(&args.b)) {
-        (Ok(a), Ok(b)) => (a, b),
-        (Err(e), _) | (_, Err(e)) => return e,
-    };
+impl EquivArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(args: EquivArgs) -> Result<Kind, CliError> {
+    let a = load_verified(&InputArgs::for_path(&args.a))?;
+    let b = load_verified(&InputArgs::for_path(&args.b))?;
     let r = match equivalence(&a, &b, args.budget) {
         Ok(r) => r,
-        Err(e) => {
-            // Matrices of different orders are inequivalent; a certificate that fails its
-            // check is a bug. Either way a program asking for JSON gets an object.
-            let different = a.order() != b.order();
+        Err(e) if a.order() != b.order() => {
+            // Matrices of different orders are inequivalent: an answer, not an error.
             if args.json {
                 let v = serde_json::json!({
-                    "verdict": if different { "inequivalent" } else { "error" },
+                    "verdict": "inequivalent",
                     "note": e.to_string(),
                     "a_order": a.order(),
                     "b_order": b.order(),
@@ -52,9 +47,17 @@ pub fn run(args: EquivArgs) -> ExitCode {
                 });
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
-                eprintln!("hadamard: {e}");
+                println!("inequivalent: {}", e.message);
+                println!("  A  {} (order {})", a.id(), a.order());
+                println!("  B  {} (order {})", b.id(), b.order());
             }
-            return ExitCode::from(if different { 1 } else { 2 });
+            return Ok(Kind::Inequivalent);
+        }
+        // A certificate that fails its check is a bug.
+        Err(e) => {
+            return Err(CliError::internal(e.to_string())
+                .with("a_id", a.id())
+                .with("b_id", b.id()))
         }
     };
     if args.json {
@@ -89,9 +92,9 @@ pub fn run(args: EquivArgs) -> ExitCode {
             println!("  {} of B  {}", i.name, i.b);
         }
     }
-    match r.verdict {
-        Verdict::Equivalent => ExitCode::SUCCESS,
-        Verdict::Inequivalent => ExitCode::from(1),
-        Verdict::Undecided => ExitCode::from(3),
-    }
+    Ok(match r.verdict {
+        Verdict::Equivalent => Kind::Done,
+        Verdict::Inequivalent => Kind::Inequivalent,
+        Verdict::Undecided => Kind::Undecided,
+    })
 }

@@ -7,6 +7,7 @@ pub mod convert;
 pub mod coverage;
 pub mod derive;
 pub mod equiv;
+pub mod error;
 pub mod input;
 pub mod output;
 pub mod progress;

@@ -1,7 +1,7 @@
 //! `hadamard routes N`: the status of an order and every route this program knows to it.
 
+use super::error::{CliError, Kind};
 use hadamard_core::route::{self, OrderInfo, Status, Step};
-use std::process::ExitCode;
 
 #[derive(clap::Args)]
 pub struct RoutesArgs {
@@ -15,7 +15,13 @@ pub struct RoutesArgs {
     order: u64,
 }
 
-pub fn run(args: RoutesArgs) -> ExitCode {
+impl RoutesArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(args: RoutesArgs) -> Result<Kind, CliError> {
     let info = route::order_info(args.order);
     if args.json {
         println!(
@@ -25,7 +31,7 @@ pub fn run(args: RoutesArgs) -> ExitCode {
     } else {
         print_info(&info, if args.all { usize::MAX } else { 5 });
     }
-    ExitCode::SUCCESS
+    Ok(Kind::Done)
 }
 
 /// Says the status in plain words.

@@ -3,10 +3,16 @@
 //!
 //! The search itself is `hadamard_core::search`; this command owns what core must not do: the
 //! terminal (indicatif), the checkpoint file, Ctrl-C, and appending to the catalogue files.
-//! Exit 0: the shard finished (whether or not it found anything; the summary says). Exit 1: it
+//! Exit 0: the shard finished (whether or not it found anything; the summary says). Exit 3: it
 //! was stopped (Ctrl-C or SIGTERM) before finishing; the checkpoint holds its state. Exit 2:
 //! usage or I/O error, or (`search merge`) files that are not every shard of one search once.
+//!
+//! The size of a search has one name per meaning: `--length` is the length of every sequence
+//! searched (Williamson's m, Golay's g, Goethals–Seidel's v; `--order` and `--v` are its old
+//! spellings, still read), `--n` the parameter of the families BS(n+1, n) and TT(n), whose
+//! sequences have different lengths.
 
+use super::error::{json_location, CliError, Kind as Outcome};
 use hadamard_core::construct::sequences::{to_text, GolayPair};
 use hadamard_core::search::{
     self, aperiodic, goethals_seidel, williamson, Checkpoint, Hooks, RunConfig, Search, Shard,
@@ -17,7 +23,6 @@ use serde_json::json;
 use std::collections::BTreeMap;
 use std::io::Write;
 use std::path::{Path, PathBuf};
-use std::process::ExitCode;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 use std::time::Instant;
 
@@ -29,11 +34,12 @@ pub struct SearchArgs {
 
 #[derive(clap::Subcommand)]
 enum Kind {
-    /// Williamson quadruples of odd order m (symmetric circulants, A²+B²+C²+D² = 4mI).
+    /// Williamson quadruples of odd length m (symmetric circulants, A²+B²+C²+D² = 4mI; order
+    /// 4m).
     Williamson {
-        /// The odd order m of each block.
-        #[arg(long)]
-        order: usize,
+        /// The length m (odd) of each of the four circulant blocks.
+        #[arg(long, alias = "order", value_name = "M")]
+        length: usize,
         #[command(flatten)]
         what: What,
         #[command(flatten)]
@@ -44,7 +50,7 @@ enum Kind {
     /// Golay's doubling from the catalogue's pairs.
     Golay {
         /// The length g to search.
-        #[arg(long, required_unless_present = "products")]
+        #[arg(long, value_name = "G", required_unless_present = "products")]
         length: Option<usize>,
         /// Build the longer lengths from the pairs already in the seed catalogue.
         #[arg(long)]
@@ -81,9 +87,9 @@ enum Kind {
     /// summing to 0; order 4v. Every one for v ≤ 40; with --multiplier, those fixed by a group
     /// of multipliers, for much longer v (symmetric ones are reported as Williamson quadruples).
     Gs {
-        /// The length v.
-        #[arg(long)]
-        v: usize,
+        /// The length v of each of the four sequences.
+        #[arg(long, alias = "v", value_name = "V")]
+        length: usize,
         /// Search only sequences fixed by the multipliers ⟨G⟩ mod v (aᵢ = a_{Gi}); `G,G2` for the
         /// group two multipliers generate. Without it, v > 40 lists the groups there are.
         #[arg(long, value_name = "G", value_delimiter = ',')]
@@ -156,17 +162,30 @@ struct Common {
 
 static STOP: AtomicBool = AtomicBool::new(false);
 
-pub fn run(args: SearchArgs) -> ExitCode {
+impl SearchArgs {
+    /// Whether `--json` was given (then a failure is a JSON object on stdout too).
+    pub fn json(&self) -> bool {
+        match &self.kind {
+            Kind::Williamson { common, .. }
+            | Kind::Golay { common, .. }
+            | Kind::Base { common, .. }
+            | Kind::Turyn { common, .. }
+            | Kind::Gs { common, .. } => common.json,
+            Kind::Merge { json, .. } => *json,
+        }
+    }
+}
+
+pub fn run(args: SearchArgs) -> Result<Outcome, CliError> {
     let command = provenance_command(std::env::args().skip(1));
     match args.kind {
         Kind::Williamson {
-            order,
+            length: order,
             what,
             common,
         } => {
             if order % 2 == 0 || order > 127 {
-                eprintln!("error: --order must be odd and at most 127");
-                return ExitCode::from(2);
+                return Err(CliError::usage("--length must be odd and at most 127"));
             }
             let mode = if what.classes {
                 williamson::Mode::Classes
@@ -210,7 +229,7 @@ pub fn run(args: SearchArgs) -> ExitCode {
             drive(&s, &what, &common, &command)
         }
         Kind::Gs {
-            v,
+            length: v,
             multiplier,
             types,
             what,
@@ -222,10 +241,7 @@ pub fn run(args: SearchArgs) -> ExitCode {
                 .transpose()
             {
                 Ok(t) => t,
-                Err(e) => {
-                    eprintln!("error: --types: {e}");
-                    return ExitCode::from(2);
-                }
+                Err(e) => return Err(CliError::usage(format!("--types: {e}"))),
             };
             let s = match multiplier {
                 Some(g) => match match typed {
@@ -233,14 +249,11 @@ pub fn run(args: SearchArgs) -> ExitCode {
                     None => goethals_seidel::GsSearch::with_multipliers(v, &g),
                 } {
                     Ok(s) => s,
-                    Err(e) => {
-                        eprintln!("error: {e}");
-                        return ExitCode::from(2);
-                    }
+                    Err(e) => return Err(CliError::usage(e.to_string())),
                 },
                 None if (1..=40).contains(&v) => goethals_seidel::GsSearch::new(v),
                 None => {
-                    eprintln!("error: --v {v} is too long to search every sequence (at most 40); choose --multiplier G, one of:");
+                    let mut msg = format!("--length {v} is too long to search every sequence (at most 40); choose --multiplier G, one of:");
                     // Groups with more orbits are listed too when −1 is not in them: a search
                     // whose blocks are all `sym` or `skew` has one sign per pair of orbits.
                     let max = goethals_seidel::MAX_ORBITS;
@@ -252,8 +265,8 @@ pub fn run(args: SearchArgs) -> ExitCode {
                         })
                         .collect();
                     if choices.is_empty() {
-                        eprintln!(
-                            "  (none: every group of multipliers mod {v} has more than {max} orbits)"
+                        msg += &format!(
+                            "\n  (none: every group of multipliers mod {v} has more than {max} orbits)"
                         );
                     }
                     for (gens, size, orbits) in choices {
@@ -263,12 +276,12 @@ pub fn run(args: SearchArgs) -> ExitCode {
                         } else {
                             "(only with --types of sym and skew blocks)".to_string()
                         };
-                        eprintln!(
-                            "  --multiplier {:<9} a group of {size} multipliers, {orbits} orbits {note}",
+                        msg += &format!(
+                            "\n  --multiplier {:<9} a group of {size} multipliers, {orbits} orbits {note}",
                             g.join(",")
                         );
                     }
-                    return ExitCode::from(2);
+                    return Err(CliError::usage(msg));
                 }
             };
             drive(&s, &what, &common, &command)
@@ -279,6 +292,23 @@ pub fn run(args: SearchArgs) -> ExitCode {
             append_to,
             unchecked,
         } => merge(&files, json, append_to.as_deref(), unchecked),
+    }
+}
+
+/// An option as the provenance spells it: the old names of `--length` (`--order`, `--v`) under
+/// their current name, so the same search is stated the same way however it was typed.
+fn canonical_option(a: &str) -> String {
+    let (name, value) = match a.split_once('=') {
+        Some((n, v)) => (n, Some(v)),
+        None => (a, None),
+    };
+    let name = match name {
+        "--order" | "--v" => "--length",
+        other => other,
+    };
+    match value {
+        Some(v) => format!("{name}={v}"),
+        None => name.to_owned(),
     }
 }
 
@@ -301,7 +331,7 @@ fn provenance_command(args: impl Iterator<Item = String>) -> String {
         if FLAGS.contains(&a.as_str()) {
             continue;
         }
-        kept.push(a);
+        kept.push(canonical_option(&a));
     }
     kept.join(" ")
 }
@@ -315,7 +345,7 @@ fn watch_ctrl_c() {
             eprintln!("\nstopping at the end of this batch (Ctrl-C again to quit now)");
             STOP.store(true, Ordering::SeqCst);
         } else {
-            std::process::exit(130);
+            std::process::exit(Outcome::Interrupted.exit_status().into());
         }
     });
     watch_sigterm();
@@ -349,13 +379,20 @@ fn watch_sigterm() {
 #[cfg(not(unix))]
 fn watch_sigterm() {}
 
-fn load_checkpoint(path: &Path) -> Result<Option<Checkpoint>, String> {
+fn load_checkpoint(path: &Path) -> Result<Option<Checkpoint>, CliError> {
     match std::fs::read_to_string(path) {
-        Ok(text) => serde_json::from_str(&text)
-            .map(Some)
-            .map_err(|e| format!("{}: not a search checkpoint: {e}", path.display())),
+        Ok(text) => serde_json::from_str(&text).map(Some).map_err(|e| {
+            let what = e.to_string();
+            let what = what.split(" at line ").next().unwrap_or(&what);
+            CliError::at(
+                Outcome::Malformed,
+                json_location(&e),
+                &format!("not a search checkpoint: {what}"),
+            )
+            .in_file(&path.display().to_string())
+        }),
         Err(e) if e.kind() == std::io::ErrorKind::NotFound => Ok(None),
-        Err(e) => Err(format!("{}: {e}", path.display())),
+        Err(e) => Err(CliError::unreadable(format!("{}: {e}", path.display()))),
     }
 }
 
@@ -365,19 +402,18 @@ fn save_checkpoint(path: &Path, c: &Checkpoint) -> std::io::Result<()> {
     std::fs::rename(tmp, path)
 }
 
-fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitCode {
-    let resume = match common
+fn drive<S: Search>(
+    s: &S,
+    what: &What,
+    common: &Common,
+    command: &str,
+) -> Result<Outcome, CliError> {
+    let resume = common
         .checkpoint
         .as_deref()
         .map(load_checkpoint)
-        .transpose()
-    {
-        Ok(c) => c.flatten(),
-        Err(e) => {
-            eprintln!("error: {e}");
-            return ExitCode::from(2);
-        }
-    };
+        .transpose()?
+        .flatten();
     if let (Some(c), Some(p)) = (&resume, &common.checkpoint) {
         eprintln!(
             "resuming from {}: {}/{} units of shard {} done, {} result(s) so far",
@@ -428,8 +464,7 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         Ok(st) => st,
         Err(e) => {
             bar.abandon();
-            eprintln!("error: {e}");
-            return ExitCode::from(2);
+            return Err(CliError::usage(e.to_string()));
         }
     };
     bar.finish_and_clear();
@@ -448,8 +483,9 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
         .map(|r| format!("{r} | {provenance}"))
         .collect();
     if let Some(bad) = first_rejected(&lines) {
-        eprintln!("error: a result failed its identity (a bug in the search): {bad}");
-        return ExitCode::from(2);
+        return Err(CliError::internal(format!(
+            "a result failed its identity (a bug in the search): {bad}"
+        )));
     }
     if common.json {
         let v = json!({
@@ -480,16 +516,19 @@ fn drive<S: Search>(s: &S, what: &What, common: &Common, command: &str) -> ExitC
             " (stopped: resume with the same --checkpoint)"
         }
     );
-    if let Some(p) = &common.append_to {
-        if let Err(e) = append_new(p, &lines) {
-            eprintln!("error: {}: {e}", p.display());
-            return ExitCode::from(2);
-        }
-    }
-    if state.finished {
-        ExitCode::SUCCESS
+    append_to(common.append_to.as_deref(), &lines)?;
+    Ok(if state.finished {
+        Outcome::Done
     } else {
-        ExitCode::from(1)
+        Outcome::Stopped
+    })
+}
+
+/// `--append-to`: appends the new lines to the file, if one is named.
+fn append_to(path: Option<&Path>, lines: &[String]) -> Result<(), CliError> {
+    match path {
+        Some(p) => append_new(p, lines).map_err(|e| CliError::io(format!("{}: {e}", p.display()))),
+        None => Ok(()),
     }
 }
 
@@ -545,7 +584,12 @@ fn provenance_shard(line: &str) -> Option<(String, Shard)> {
     let prov = prov.trim();
     let rest = prov.strip_prefix("found by ")?;
     let at = rest.rfind(" (shard ")?;
-    let command = rest[..at].to_string();
+    // Lines written before `--length` was the one name are read as if written after.
+    let command = rest[..at]
+        .split(' ')
+        .map(canonical_option)
+        .collect::<Vec<_>>()
+        .join(" ");
     let tail = &rest[at + " (shard ".len()..];
     let shard = tail.split_once(')')?.0.parse().ok()?;
     Some((command, shard))
@@ -674,27 +718,24 @@ fn check_complete(outputs: &[ShardOutput]) -> Vec<String> {
     problems
 }
 
-fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>, unchecked: bool) -> ExitCode {
+fn merge(
+    files: &[PathBuf],
+    json: bool,
+    append: Option<&Path>,
+    unchecked: bool,
+) -> Result<Outcome, CliError> {
     let mut outputs = Vec::new();
     for f in files {
-        match read_shard_output(f) {
-            Ok(o) => outputs.push(o),
-            Err(e) => {
-                eprintln!("error: {e}");
-                return ExitCode::from(2);
-            }
-        }
+        outputs.push(read_shard_output(f).map_err(CliError::unreadable)?);
     }
     if !unchecked {
         let problems = check_complete(&outputs);
         if !problems.is_empty() {
+            let mut msg = "refusing to merge: the files must be the shards 0/k … (k−1)/k of one search, each once and finished (--unchecked merges them anyway):".to_string();
             for p in &problems {
-                eprintln!("error: {p}");
+                msg += &format!("\n  {p}");
             }
-            eprintln!(
-                "refusing to merge: the files must be the shards 0/k … (k−1)/k of one search, each once and finished (--unchecked merges them anyway)"
-            );
-            return ExitCode::from(2);
+            return Err(CliError::usage(msg).with("problems", &problems));
         }
     }
     // Keyed by the data part, so the same result from two shards appears once (with the
@@ -707,8 +748,10 @@ fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>, unchecked: boo
     }
     let lines: Vec<String> = all.into_values().collect();
     if let Some(bad) = first_rejected(&lines) {
-        eprintln!("error: an input line is not a valid seed entry: {bad}");
-        return ExitCode::from(2);
+        return Err(CliError::new(
+            Outcome::Malformed,
+            format!("an input line is not a valid seed entry: {bad}"),
+        ));
     }
     print_results(&lines, json);
     eprintln!(
@@ -716,18 +759,13 @@ fn merge(files: &[PathBuf], json: bool, append_to: Option<&Path>, unchecked: boo
         files.len(),
         lines.len()
     );
-    if let Some(p) = append_to {
-        if let Err(e) = append_new(p, &lines) {
-            eprintln!("error: {}: {e}", p.display());
-            return ExitCode::from(2);
-        }
-    }
-    ExitCode::SUCCESS
+    append_to(append, &lines)?;
+    Ok(Outcome::Done)
 }
 
 /// Every Golay length 2^a·10^b·26^c ≤ `max` reachable from the catalogue's pairs by Turyn's
 /// product and doubling, shortest construction first.
-fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
+fn golay_products(max: usize, common: &Common, command: &str) -> Result<Outcome, CliError> {
     let cat = hadamard_core::seed::embedded();
     let mut known: BTreeMap<usize, (GolayPair, String)> = BTreeMap::new();
     for e in &cat.golay {
@@ -772,18 +810,14 @@ fn golay_products(max: usize, common: &Common, command: &str) -> ExitCode {
         })
         .collect();
     if let Some(bad) = first_rejected(&lines) {
-        eprintln!("error: a product failed the identity (a bug): {bad}");
-        return ExitCode::from(2);
+        return Err(CliError::internal(format!(
+            "a product failed the identity (a bug): {bad}"
+        )));
     }
     print_results(&lines, common.json);
     eprintln!("built {} Golay pair(s) of new lengths ≤ {max}", lines.len());
-    if let Some(p) = &common.append_to {
-        if let Err(e) = append_new(p, &lines) {
-            eprintln!("error: {}: {e}", p.display());
-            return ExitCode::from(2);
-        }
-    }
-    ExitCode::SUCCESS
+    append_to(common.append_to.as_deref(), &lines)?;
+    Ok(Outcome::Done)
 }
 
 /// Prints result lines: one seed-catalogue line each, or `{"results": [...]}` with `--json`.
@@ -813,6 +847,47 @@ mod tests {
             finished: Some((finished, if finished { 10 } else { 3 }, 10)),
             mixed: false,
         }
+    }
+
+    #[test]
+    fn the_old_size_names_still_parse_and_are_stated_under_the_new_one() {
+        use clap::Parser;
+        #[derive(Parser)]
+        struct T {
+            #[command(subcommand)]
+            kind: Kind,
+        }
+        let size = |args: &[&str]| match T::try_parse_from(args).expect("parses").kind {
+            Kind::Williamson { length, .. } | Kind::Gs { length, .. } => length,
+            _ => unreachable!("only the searches with a length are parsed here"),
+        };
+        for (old, new) in [("--order", "williamson"), ("--v", "gs")] {
+            assert_eq!(size(&["t", new, old, "23"]), 23, "{new} {old}");
+            assert_eq!(size(&["t", new, "--length", "23"]), 23, "{new} --length");
+        }
+        let args = |s: &str| {
+            s.split(' ')
+                .map(String::from)
+                .collect::<Vec<_>>()
+                .into_iter()
+        };
+        for typed in [
+            "search gs --v 67 --multiplier 29 --json --shard 1/4",
+            "search gs --length 67 --multiplier 29",
+            "search gs --length=67 --quiet --multiplier 29",
+        ] {
+            let stated = provenance_command(args(typed));
+            assert!(
+                stated == "hadamard search gs --length 67 --multiplier 29"
+                    || stated == "hadamard search gs --length=67 --multiplier 29",
+                "{typed}: {stated}"
+            );
+        }
+        let old = "williamson m=5 a=+ | found by hadamard search williamson --order 5 (shard 0/1); 2026-12-03";
+        assert_eq!(
+            provenance_shard(old).map(|p| p.0).as_deref(),
+            Some("hadamard search williamson --length 5")
+        );
     }
 
     #[test]

@@ -4,11 +4,15 @@
 //! Logs go to stderr through `tracing` (`RUST_LOG` filters them, `--log-json` makes them one
 //! JSON object a line); stdout gets one line, the address it listens on.
 
+use super::error::{CliError, Kind};
 use crate::app::{self, Config};
 use std::net::SocketAddr;
 use std::path::PathBuf;
-use std::process::ExitCode;
 use std::time::Duration;
+
+/// The default `--max-order` of the server (the command line's is
+/// [`super::input::DEFAULT_MAX_ORDER`], higher: see the option's help).
+pub const DEFAULT_MAX_ORDER: usize = 8192;
 
 /// The default database file.
 pub const DEFAULT_DB: &str = "./data/registry.sqlite3";
@@ -24,8 +28,11 @@ pub struct ServeArgs {
     /// The largest request body accepted, in bytes (larger ones get 413).
     #[arg(long, value_name = "BYTES", default_value_t = 64 << 20)]
     max_body: usize,
-    /// The largest order uploaded or built.
-    #[arg(long, value_name = "N", default_value_t = 8192)]
+    /// The largest order uploaded or built. Lower than the 32768 of the other commands
+    /// (`verify --max-order`, this program's build limit) on purpose: a server checks and
+    /// builds for anonymous requests, and the work of one grows as n³ (order 32768 is 64
+    /// times the work of 8192).
+    #[arg(long, value_name = "N", default_value_t = DEFAULT_MAX_ORDER)]
     max_order: usize,
     /// How long one request may take, in seconds, body included (then 503).
     #[arg(long, value_name = "SECONDS", default_value_t = 120)]
@@ -68,7 +75,7 @@ pub struct ServeArgs {
     log_json: bool,
 }
 
-pub fn run(args: ServeArgs) -> ExitCode {
+pub fn run(args: ServeArgs) -> Result<Kind, CliError> {
     init_logging(args.log_json);
     let cores = std::thread::available_parallelism()
         .map(|n| n.get())
@@ -92,23 +99,13 @@ pub fn run(args: ServeArgs) -> ExitCode {
         upload_buffer_bytes: args.upload_buffer_mib.max(1) << 20,
         store_max_order: args.store_max_order,
     };
-    let rt = match tokio::runtime::Builder::new_multi_thread()
+    let rt = tokio::runtime::Builder::new_multi_thread()
         .enable_all()
         .build()
-    {
-        Ok(rt) => rt,
-        Err(e) => {
-            eprintln!("hadamard: cannot start the runtime: {e}");
-            return ExitCode::from(2);
-        }
-    };
-    match rt.block_on(app::run(config)) {
-        Ok(()) => ExitCode::SUCCESS,
-        Err(e) => {
-            eprintln!("hadamard: {e}");
-            ExitCode::from(2)
-        }
-    }
+        .map_err(|e| CliError::io(format!("cannot start the runtime: {e}")))?;
+    rt.block_on(app::run(config))
+        .map_err(|e| CliError::io(e.to_string()))?;
+    Ok(Kind::Done)
 }
 
 fn init_logging(json: bool) {

@@ -4,14 +4,14 @@
 //! rectangular one, and one with erased entries, which is not a matrix of ±1 values yet).
 //! Exit 2: unreadable, malformed, or a usage error; the message names the place.
 
-use super::input::{parse_input, read_bytes, InputArgs, InputError, DEFAULT_MAX_BYTES};
+use super::error::{CliError, Kind};
+use super::input::{parse_input, read_bytes, InputArgs, DEFAULT_MAX_BYTES};
 use super::progress::Spinner;
 use hadamard_core::formats::Format;
 use hadamard_core::id::{canonical_text_id, matrix_id};
 use hadamard_core::json;
 use hadamard_core::repair::{Axis, Completion, CompletionReport, Proof, SignRepair};
 use hadamard_core::verify::{self, Report};
-use std::process::ExitCode;
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Instant;
 
@@ -34,35 +34,38 @@ pub struct VerifyArgs {
     format: Option<String>,
 }
 
-pub fn run(mut args: VerifyArgs) -> ExitCode {
+impl VerifyArgs {
+    pub fn json(&self) -> bool {
+        self.json
+    }
+}
+
+pub fn run(mut args: VerifyArgs) -> Result<Kind, CliError> {
     if let Some(f) = args.format.take() {
         args.input.input_format = Some(f);
     }
     let kernel = match verify::Kernel::from_name(&args.kernel) {
         Some(k) if k.is_available() => k,
         Some(k) => {
-            return InputError::Usage(format!("the {k} kernel is not available on this CPU"))
-                .report(args.json)
+            return Err(CliError::usage(format!(
+                "the {k} kernel is not available on this CPU"
+            )))
         }
         None => {
             let names: Vec<&str> = verify::Kernel::ALL.iter().map(|k| k.name()).collect();
-            return InputError::Usage(format!(
+            return Err(CliError::usage(format!(
                 "unknown kernel `{}`: use best or one of {}",
                 args.kernel,
                 names.join(", ")
-            ))
-            .report(args.json);
+            )));
         }
     };
-    let bytes = match read_bytes(&args.input.path, DEFAULT_MAX_BYTES) {
-        Ok(b) => b,
-        Err(e) => return e.report(args.json),
-    };
+    let bytes = read_bytes(&args.input.path, DEFAULT_MAX_BYTES)?;
     // While this thread parses and checks (on every core), another hashes the id straight
     // from the file when the file is the canonical text, as a `pm` file written by this
     // project is; otherwise the id is hashed from the parsed matrix afterwards.
     let stop = AtomicBool::new(false);
-    let (parsed, report, elapsed) = match std::thread::scope(|s| {
+    let (parsed, report, elapsed) = std::thread::scope(|s| {
         let hasher = s.spawn(|| canonical_text_id(&bytes, &stop));
         let parsed = match parse_input(&bytes, &args.input) {
             Ok(p) => p,
@@ -83,11 +86,8 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             _ => matrix_id(m),
         };
         let report = checked.report(id);
-        Ok((parsed, report, start.elapsed()))
-    }) {
-        Ok(r) => r,
-        Err(e) => return e.report(args.json),
-    };
+        Ok::<_, CliError>((parsed, report, start.elapsed()))
+    })?;
     drop(bytes);
     // Erased entries are stored as +1; the matrix as read is not Hadamard until they are known.
     let spin = (!parsed.erasures.is_empty()).then(|| {
@@ -120,11 +120,13 @@ pub fn run(mut args: VerifyArgs) -> ExitCode {
             follow.completion.as_ref(),
         );
     }
-    if hadamard {
-        ExitCode::SUCCESS
+    Ok(if hadamard {
+        Kind::Done
+    } else if !parsed.erasures.is_empty() {
+        Kind::Incomplete
     } else {
-        ExitCode::from(1)
-    }
+        Kind::NotHadamard
+    })
 }
 
 fn print_human(
