@@ -29,5 +29,6 @@ pub mod route;
 pub mod search;
 pub mod seed;
 pub mod verify;
+pub mod wire;
 
 pub use matrix::Matrix;

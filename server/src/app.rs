@@ -99,29 +99,61 @@ pub fn open_state(config: Config) -> Result<AppState, StoreError> {
     })
 }
 
+/// An `/api` path as the router takes it, checked against the one endpoint list
+/// ([`hadamard_core::wire::endpoints::ENDPOINTS`]): a route that is not listed (and so not
+/// served by `GET /api` nor checked against `docs/api.md`) stops the server at start. The
+/// `{kind}` of the derived objects stands for each of `DERIVE_KINDS`.
+fn listed(method: &str, path: &'static str) -> &'static str {
+    use hadamard_core::wire::endpoints::{DERIVE_KINDS, ENDPOINTS};
+    let is = |p: &str| ENDPOINTS.iter().any(|e| e.method == method && e.path == p);
+    let ok = if path.contains("{kind}") {
+        DERIVE_KINDS.iter().all(|k| is(&path.replace("{kind}", k)))
+    } else {
+        is(path)
+    };
+    assert!(
+        ok,
+        "{method} {path} is routed but not in core::wire::endpoints::ENDPOINTS"
+    );
+    path
+}
+
 /// The router: the API, the app's pages and assets, with timeouts and security headers.
 pub fn router(state: Arc<AppState>) -> Router {
+    let g = |p| listed("GET", p);
     Router::new()
-        .route("/api", get(api::index))
-        .route("/api/health", get(api::health))
-        .route("/api/orders/{n}", get(api::orders::show))
-        .route("/api/orders/{n}/matrix", get(api::orders::catalogue_matrix))
-        .route("/api/orders/{n}/matrices", get(api::orders::list))
+        .route(g("/api"), get(api::index))
+        .route(g("/api/health"), get(api::health))
+        .route(g("/api/orders/{n}"), get(api::orders::show))
         .route(
-            "/api/orders/{n}/matrix/download",
+            g("/api/orders/{n}/matrix"),
+            get(api::orders::catalogue_matrix),
+        )
+        .route(g("/api/orders/{n}/matrices"), get(api::orders::list))
+        .route(
+            g("/api/orders/{n}/matrix/download"),
             get(api::pages::order_download),
         )
-        .route("/api/id-prefix/{p}", get(api::pages::id_prefix))
-        .route("/api/coverage", get(api::coverage::show))
-        .route("/api/dimensions/{d}", get(api::advice::dimension))
-        .route("/api/smallest-known", get(api::advice::smallest_known))
-        .route("/api/matrices", axum::routing::post(api::matrices::upload))
-        .route("/api/matrices/{id}", get(api::matrices::show))
-        .route("/api/matrices/{id}/download", get(api::matrices::download))
-        .route("/api/matrices/{id}/rows/{i}", get(api::matrices::row))
-        .route("/api/matrices/{id}/derive/{kind}", get(api::derive::derive))
-        .route("/api/brr", get(api::derive::brr))
-        .route("/api/equivalence", get(api::derive::equivalent))
+        .route(g("/api/id-prefix/{p}"), get(api::pages::id_prefix))
+        .route(g("/api/coverage"), get(api::coverage::show))
+        .route(g("/api/dimensions/{d}"), get(api::advice::dimension))
+        .route(g("/api/smallest-known"), get(api::advice::smallest_known))
+        .route(
+            listed("POST", "/api/matrices"),
+            axum::routing::post(api::matrices::upload),
+        )
+        .route(g("/api/matrices/{id}"), get(api::matrices::show))
+        .route(
+            g("/api/matrices/{id}/download"),
+            get(api::matrices::download),
+        )
+        .route(g("/api/matrices/{id}/rows/{i}"), get(api::matrices::row))
+        .route(
+            g("/api/matrices/{id}/derive/{kind}"),
+            get(api::derive::derive),
+        )
+        .route(g("/api/brr"), get(api::derive::brr))
+        .route(g("/api/equivalence"), get(api::derive::equivalent))
         .route("/", get(api::pages::index))
         .route("/m/{id}", get(api::pages::matrix_page))
         .route("/pkg/boot.js", get(api::pages::boot_js))
@@ -169,7 +201,7 @@ async fn head_limits(req: Request, next: Next) -> Response {
             StatusCode::URI_TOO_LONG,
             format!("the request target is {uri_len} bytes, over this server's limit of {MAX_URI_BYTES}"),
         )
-        .with("limit", MAX_URI_BYTES)
+        .limit(MAX_URI_BYTES)
         .into_response();
     }
     let header_bytes: usize = req
@@ -182,7 +214,7 @@ async fn head_limits(req: Request, next: Next) -> Response {
             StatusCode::REQUEST_HEADER_FIELDS_TOO_LARGE,
             format!("the request headers are {header_bytes} bytes, over this server's limit of {MAX_HEADER_BYTES}"),
         )
-        .with("limit", MAX_HEADER_BYTES)
+        .limit(MAX_HEADER_BYTES)
         .into_response();
     }
     next.run(req).await

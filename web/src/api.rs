@@ -1,36 +1,36 @@
 //! The server's JSON API, through `fetch`.
 //!
-//! Answers are kept as `serde_json::Value` and read with the small accessors below, so a field
-//! the server adds or renames degrades to "not shown" instead of failing the whole screen.
+//! Every answer is read into its type from `hadamard_core::wire`, the types the server's
+//! handlers write, so a field renamed on one side is renamed on the other; an answer that does
+//! not fit its type is shown as an error saying so, never as a page with parts quietly missing.
 
 use crate::app::window;
+use hadamard_core::wire::ErrorBody;
 use js_sys::Uint8Array;
-use serde_json::Value;
+use serde::de::DeserializeOwned;
 use wasm_bindgen::JsCast;
 use wasm_bindgen_futures::JsFuture;
 use web_sys::{Request, RequestInit, Response};
 
-/// An HTTP answer: its status and its body read as JSON (`Value::Null` if it was not JSON).
-#[derive(Clone)]
-pub struct Reply {
+/// Why a request gave no answer of the type asked for: the server's status (0 when it was not
+/// reached) and a sentence, the server's own `error` when it gave one.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Failure {
     pub status: u16,
-    pub body: Value,
+    pub message: String,
 }
 
-impl Reply {
-    pub fn ok(&self) -> bool {
-        (200..300).contains(&self.status)
-    }
-
-    /// The server's `error` message, or a generic one naming the status.
-    pub fn error(&self) -> String {
-        self.body
-            .get("error")
-            .and_then(Value::as_str)
-            .map(str::to_string)
-            .unwrap_or_else(|| format!("the server answered {}", self.status))
+impl Failure {
+    fn unreached(message: impl Into<String>) -> Failure {
+        Failure {
+            status: 0,
+            message: message.into(),
+        }
     }
 }
+
+/// An answer read into its type, or why not.
+pub type Answer<T> = Result<T, Failure>;
 
 async fn send(req: Request) -> Result<Response, String> {
     let resp = JsFuture::from(window().fetch_with_request(&req))
@@ -40,7 +40,8 @@ async fn send(req: Request) -> Result<Response, String> {
         .map_err(|_| "the server's answer was not a response".to_string())
 }
 
-async fn json_of(resp: Response) -> Reply {
+/// The body of a 2xx answer read as `T` (with the status), or the server's error.
+async fn json_of<T: DeserializeOwned>(resp: Response) -> Answer<(u16, T)> {
     let status = resp.status();
     let text = match resp.text() {
         Ok(p) => JsFuture::from(p)
@@ -50,20 +51,32 @@ async fn json_of(resp: Response) -> Reply {
             .unwrap_or_default(),
         Err(_) => String::new(),
     };
-    Reply {
-        status,
-        body: serde_json::from_str(&text).unwrap_or(Value::Null),
+    if (200..300).contains(&status) {
+        serde_json::from_str(&text)
+            .map(|v| (status, v))
+            .map_err(|e| Failure {
+                status,
+                message: format!("the server's answer could not be read ({e})"),
+            })
+    } else {
+        Err(Failure {
+            status,
+            message: serde_json::from_str::<ErrorBody>(&text)
+                .map(|b| b.error)
+                .unwrap_or_else(|_| format!("the server answered {status}")),
+        })
     }
 }
 
-/// GET a JSON resource.
-pub async fn get(url: &str) -> Result<Reply, String> {
+/// GET a JSON resource as `T`.
+pub async fn get<T: DeserializeOwned>(url: &str) -> Answer<T> {
     let init = RequestInit::new();
     init.set_method("GET");
-    let req =
-        Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
+    let req = Request::new_with_str_and_init(url, &init)
+        .map_err(|_| Failure::unreached(format!("bad request URL {url}")))?;
     let _ = req.headers().set("Accept", "application/json");
-    Ok(json_of(send(req).await?).await)
+    let resp = send(req).await.map_err(Failure::unreached)?;
+    json_of(resp).await.map(|(_, v)| v)
 }
 
 /// GET raw bytes (a download), with the status.
@@ -80,49 +93,27 @@ pub async fn get_bytes(url: &str) -> Result<(u16, Vec<u8>), String> {
     Ok((status, Uint8Array::new(&buf).to_vec()))
 }
 
-/// POST raw bytes, reading a JSON answer.
-pub async fn post_bytes(url: &str, bytes: &[u8]) -> Result<Reply, String> {
+/// POST raw bytes, reading a JSON answer as `T` with its status.
+pub async fn post_bytes<T: DeserializeOwned>(url: &str, bytes: &[u8]) -> Answer<(u16, T)> {
     let init = RequestInit::new();
     init.set_method("POST");
     let body = Uint8Array::from(bytes);
     init.set_body(&body);
-    let req =
-        Request::new_with_str_and_init(url, &init).map_err(|_| format!("bad request URL {url}"))?;
+    let req = Request::new_with_str_and_init(url, &init)
+        .map_err(|_| Failure::unreached(format!("bad request URL {url}")))?;
     let _ = req
         .headers()
         .set("Content-Type", "application/octet-stream");
     let _ = req.headers().set("Accept", "application/json");
-    Ok(json_of(send(req).await?).await)
+    let resp = send(req).await.map_err(Failure::unreached)?;
+    json_of(resp).await
 }
 
-/// `v[key]` as a string, if it is one.
-pub fn s<'a>(v: &'a Value, key: &str) -> Option<&'a str> {
-    v.get(key).and_then(Value::as_str)
-}
-
-/// `v[key]` as an unsigned integer, if it is one.
-pub fn u(v: &Value, key: &str) -> Option<u64> {
-    v.get(key).and_then(Value::as_u64)
-}
-
-/// `v[key]` as a boolean, if it is one.
-pub fn b(v: &Value, key: &str) -> Option<bool> {
-    v.get(key).and_then(Value::as_bool)
-}
-
-/// `v[key]` as an array (empty if absent).
-pub fn arr<'a>(v: &'a Value, key: &str) -> &'a [Value] {
-    v.get(key)
-        .and_then(Value::as_array)
-        .map(Vec::as_slice)
-        .unwrap_or(&[])
-}
-
-/// A JSON value in words: strings bare, everything else as compact JSON.
-pub fn plain(v: &Value) -> String {
+/// A JSON value in words: strings bare, `null` as a dash, everything else as compact JSON.
+pub fn plain(v: &serde_json::Value) -> String {
     match v {
-        Value::String(s) => s.clone(),
-        Value::Null => "—".into(),
+        serde_json::Value::String(s) => s.clone(),
+        serde_json::Value::Null => "—".into(),
         other => other.to_string(),
     }
 }

@@ -4,9 +4,9 @@
 //! ("668, open"). Colour is never the only signal: open orders also carry a hatch and a ring,
 //! and the legend states each status in words with its count.
 
-use crate::api;
 use crate::lookup::fetch;
 use crate::words::status_label;
+use hadamard_core::wire::{name_of, CoverageEntry};
 use leptos::prelude::*;
 
 /// The largest order on the map.
@@ -39,7 +39,7 @@ fn csv_href(list: &[(u64, String)]) -> String {
 
 #[component]
 pub fn Coverage() -> impl IntoView {
-    let reply = fetch(format!("/api/coverage?max={MAX}"));
+    let reply = fetch::<Vec<CoverageEntry>>(format!("/api/coverage?max={MAX}"));
     // The grid is one tab stop: arrow keys move within it (the cell that has it is `active`).
     let active = RwSignal::new(0usize);
     view! {
@@ -51,16 +51,12 @@ pub fn Coverage() -> impl IntoView {
         <section class="card" aria-live="polite">
             {move || match reply.get() {
                 None => view! { <p class="waiting">"Asking the catalogue…"</p> }.into_any(),
-                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-                Some(Ok(r)) => {
-                    let list: Vec<(u64, String)> = match &r.body {
-                        serde_json::Value::Array(a) => a.clone(),
-                        b => api::arr(b, "orders").to_vec(),
-                    }
-                    .iter()
-                    .filter_map(|e| Some((api::u(e, "order")?, api::s(e, "status")?.to_string())))
-                    .collect();
+                Some(Err(e)) => view! { <p class="bad">{e.message}</p> }.into_any(),
+                Some(Ok(entries)) => {
+                    let list: Vec<(u64, String)> = entries
+                        .iter()
+                        .map(|e| (e.order, name_of(&e.status)))
+                        .collect();
                     let count = |s: &str| list.iter().filter(|(_, t)| t == s).count();
                     let with = |s: &str| list.iter().filter(|(_, t)| t == s).map(|(n, _)| *n).collect::<Vec<u64>>();
                     let open = with("open");

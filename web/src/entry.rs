@@ -7,15 +7,16 @@
 //! cannot exist for the matrix are greyed out with the reason; equivalence is answered on the
 //! page; and a "Cite this" block gives the id, link, order, how it was made and the date.
 
-use crate::api;
+use crate::api::{self, Answer};
 use crate::lookup::{fetch, node_view};
 use crate::picture::MatrixPicture;
 use crate::verify::absolute;
+use hadamard_core::derive::equivalence::Verdict;
 use hadamard_core::formats::{self, Format, ReadOptions};
+use hadamard_core::wire::{name_of, EquivalenceAnswer, MatrixInfo, Provenance, SequencyAnswer};
 use hadamard_core::Matrix;
 use leptos::prelude::*;
 use leptos::task::spawn_local;
-use serde_json::Value;
 use std::sync::Arc;
 use wasm_bindgen_futures::JsFuture;
 
@@ -52,19 +53,6 @@ const DERIVED: [(&str, &str, &str); 12] = [
     ("ordering?scaled=true&format=npy-f64", "Scaled by 1/√n, NumPy float64 (.npy)", "The same as a float64 .npy file."),
 ];
 
-fn facts_list(v: &Value) -> Vec<(String, String)> {
-    match v.as_object() {
-        Some(o) => o
-            .iter()
-            .map(|(k, val)| (k.replace('_', " "), api::plain(val)))
-            .collect(),
-        None => match v {
-            Value::Null => Vec::new(),
-            other => vec![(String::new(), api::plain(other))],
-        },
-    }
-}
-
 fn dl(items: Vec<(String, String)>) -> impl IntoView {
     view! {
         <dl class="facts">
@@ -74,18 +62,14 @@ fn dl(items: Vec<(String, String)>) -> impl IntoView {
 }
 
 /// Where the matrix came from: built by a route (drawn as its tree) or uploaded.
-fn provenance_view(p: &Value, catalogue: bool, order: u64) -> AnyView {
-    let kind = api::s(p, "kind").unwrap_or("");
+fn provenance_view(p: &Provenance, catalogue: bool, order: u64) -> AnyView {
     let own = catalogue.then(
         || view! { <p>{format!("This is the catalogue's own matrix of order {order}.")}</p> },
     );
-    match kind {
-        "constructed" => {
-            let at = api::s(p, "constructed_at").unwrap_or("").to_string();
-            let tree = p
-                .get("recipe")
-                .and_then(|r| r.get("tree"))
-                .map(|t| node_view(t, order));
+    match p {
+        Provenance::Constructed { constructed_at, .. } => {
+            let at = constructed_at.clone();
+            let tree = p.recipe().map(|r| node_view(&r.tree, order));
             view! {
                 {own}
                 <p>{format!("Built and checked by this program{}, by this route (its recipe replays to the same matrix):", if at.is_empty() { String::new() } else { format!(" on {at}") })}</p>
@@ -93,21 +77,23 @@ fn provenance_view(p: &Value, catalogue: bool, order: u64) -> AnyView {
             }
             .into_any()
         }
-        "uploaded" => {
-            let at = api::s(p, "uploaded_at").unwrap_or("").to_string();
-            let f = api::s(p, "received_format").unwrap_or("").to_string();
+        Provenance::Uploaded {
+            uploaded_at,
+            received_format,
+        } => {
+            let at = uploaded_at.clone();
+            let f = received_format.clone().unwrap_or_default();
             view! {
                 {own}
                 <p>{format!("Uploaded on {at}{}, and checked by the server before it was stored.", if f.is_empty() { String::new() } else { format!(" as {f}") })}</p>
             }
             .into_any()
         }
-        _ => view! { {own}{dl(facts_list(p))} }.into_any(),
     }
 }
 
 /// Words for a derived object that cannot exist for this matrix, or `None` when it can.
-fn unavailable(q: &str, order: u64, sequency: &Option<Result<Value, String>>) -> Option<String> {
+fn unavailable(q: &str, order: u64, sequency: &Option<Answer<SequencyAnswer>>) -> Option<String> {
     let kind = q.split('?').next().unwrap_or(q);
     if order > 2048 && matches!(kind, "screening" | "code" | "symmetric-design") {
         return Some(format!("Served up to order 2048; this matrix has order {order}. The command line makes it: hadamard derive {kind}."));
@@ -119,7 +105,7 @@ fn unavailable(q: &str, order: u64, sequency: &Option<Result<Value, String>>) ->
         return None;
     }
     let distinct = match sequency {
-        Some(Ok(v)) => api::b(v, "distinct"),
+        Some(Ok(v)) => Some(v.distinct),
         _ => None,
     };
     if q.contains("order=dyadic") && !order.is_power_of_two() {
@@ -135,7 +121,7 @@ fn unavailable(q: &str, order: u64, sequency: &Option<Result<Value, String>>) ->
 /// The answer of `/api/equivalence`, as sentences.
 #[component]
 pub fn EquivalenceResult(a: String, b: String) -> impl IntoView {
-    let reply = fetch(format!("/api/equivalence?a={a}&b={b}"));
+    let reply = fetch::<EquivalenceAnswer>(format!("/api/equivalence?a={a}&b={b}"));
     let short = format!("{}…", &b[..b.len().min(12)]);
     let link = format!("/m/{b}");
     view! {
@@ -144,19 +130,18 @@ pub fn EquivalenceResult(a: String, b: String) -> impl IntoView {
                 let (short, link) = (short.clone(), link.clone());
                 match reply.get() {
                     None => view! { <p class="waiting">{format!("Comparing with {short}…")}</p> }.into_any(),
-                    Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                    Some(Ok(r)) if !r.ok() => view! { <p class="bad" data-verdict="error">{r.error()}</p> }.into_any(),
-                    Some(Ok(r)) => {
-                        let v = r.body;
-                        let verdict = api::s(&v, "verdict").unwrap_or("").to_string();
-                        let nodes = api::u(&v, "nodes").unwrap_or(0);
-                        let words = match verdict.as_str() {
-                            "equivalent" => "Equivalent: a certificate (a permutation and negation of rows and of columns) maps one onto the other, and was checked entry by entry.".to_string(),
-                            "inequivalent" => {
-                                let name = v.get("invariant").and_then(|i| api::s(i, "name")).unwrap_or("an invariant").replace('_', " ");
+                    Some(Err(e)) if e.status == 0 => view! { <p class="bad">{e.message}</p> }.into_any(),
+                    Some(Err(e)) => view! { <p class="bad" data-verdict="error">{e.message}</p> }.into_any(),
+                    Some(Ok(v)) => {
+                        let verdict = name_of(&v.verdict);
+                        let nodes = v.nodes;
+                        let words = match v.verdict {
+                            Verdict::Equivalent => "Equivalent: a certificate (a permutation and negation of rows and of columns) maps one onto the other, and was checked entry by entry.".to_string(),
+                            Verdict::Inequivalent => {
+                                let name = v.invariant.as_ref().map_or("an invariant", |i| i.name.as_str()).replace('_', " ");
                                 format!("Not equivalent: their {name} differs, and equivalent matrices share it.")
                             }
-                            _ => format!("Undecided: the search stopped after {nodes} nodes without a certificate, and the invariants compared agree."),
+                            Verdict::Undecided => format!("Undecided: the search stopped after {nodes} nodes without a certificate, and the invariants compared agree."),
                         };
                         view! {
                             <p class=if verdict == "equivalent" { "good" } else { "" } data-verdict=verdict.clone()>
@@ -171,46 +156,39 @@ pub fn EquivalenceResult(a: String, b: String) -> impl IntoView {
 }
 
 /// How the matrix was made, in a few words, for the citation.
-fn made_by(prov: &Value) -> String {
-    match api::s(prov, "kind") {
-        Some("constructed") => {
+fn made_by(prov: &Provenance) -> String {
+    match prov {
+        Provenance::Constructed { .. } => {
             let method = prov
-                .get("recipe")
-                .and_then(|r| r.get("tree"))
-                .and_then(|t| api::s(t, "method"))
-                .map(crate::words::method_name)
+                .recipe()
+                .map(|r| crate::words::method_name(&name_of(&r.tree.method)))
                 .unwrap_or_else(|| "a construction".into());
             format!("built by {method} and checked exactly by the Hadamard Registry")
         }
-        Some("uploaded") => "uploaded, and checked exactly by the Hadamard Registry".into(),
-        _ => "checked exactly by the Hadamard Registry".into(),
+        Provenance::Uploaded { .. } => {
+            "uploaded, and checked exactly by the Hadamard Registry".into()
+        }
     }
 }
 
-fn date_of(prov: &Value) -> String {
-    api::s(prov, "constructed_at")
-        .or_else(|| api::s(prov, "uploaded_at"))
-        .map(|t| t.get(..10).unwrap_or(t).to_string())
-        .unwrap_or_default()
+fn date_of(prov: &Provenance) -> String {
+    let t = prov.at();
+    t.get(..10).unwrap_or(t).to_string()
 }
 
 #[component]
 pub fn Entry(id: String) -> impl IntoView {
-    let meta = fetch(format!("/api/matrices/{id}"));
+    let meta = fetch::<MatrixInfo>(format!("/api/matrices/{id}"));
     let heading = move || match meta.get() {
-        Some(Ok(r)) if r.ok() => format!(
-            "A Hadamard matrix of order {}",
-            api::u(&r.body, "order").unwrap_or(0)
-        ),
-        Some(Ok(r)) if r.status == 404 => "No such matrix".to_string(),
+        Some(Ok(m)) => format!("A Hadamard matrix of order {}", m.order),
+        Some(Err(e)) if e.status == 404 => "No such matrix".to_string(),
         _ => "A Hadamard matrix".to_string(),
     };
     view! {
         <h1 tabindex="-1" id="entry-title">{heading}</h1>
         {move || match meta.get() {
             None => view! { <p class="waiting">"Loading…"</p> }.into_any(),
-            Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-            Some(Ok(r)) if r.status == 404 => view! {
+            Some(Err(e)) if e.status == 404 => view! {
                 <section class="card" id="not-found">
                     <p class="bad">"No matrix with this id is in the catalogue."</p>
                     <p><code class="id">{id.clone()}</code></p>
@@ -218,16 +196,16 @@ pub fn Entry(id: String) -> impl IntoView {
                     <a href="/">"the look-up box"</a>" to find it, or "<a href="/verify">"verify and publish a matrix"</a>" to create one."</p>
                 </section>
             }.into_any(),
-            Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-            Some(Ok(r)) => view! { <EntryBody id=id.clone() body=r.body /> }.into_any(),
+            Some(Err(e)) => view! { <p class="bad">{e.message}</p> }.into_any(),
+            Some(Ok(m)) => view! { <EntryBody id=id.clone() body=m /> }.into_any(),
         }}
     }
 }
 
 #[component]
-fn EntryBody(id: String, body: Value) -> impl IntoView {
+fn EntryBody(id: String, body: MatrixInfo) -> impl IntoView {
     let b = body;
-    let order = api::u(&b, "order").unwrap_or(0);
+    let order = b.order;
     let matrix = RwSignal::new(None::<Result<Arc<Matrix>, String>>);
     let copied = RwSignal::new(None::<String>);
     let permalink = absolute(&format!("/m/{id}"));
@@ -261,15 +239,11 @@ fn EntryBody(id: String, body: Value) -> impl IntoView {
     if auto {
         fetch_pm();
     }
-    let sequency = RwSignal::new(None::<Result<Value, String>>);
+    let sequency = RwSignal::new(None::<Answer<SequencyAnswer>>);
     if order <= 2048 {
         let url = format!("/api/matrices/{id}/derive/sequency");
         spawn_local(async move {
-            sequency.set(Some(match api::get(&url).await {
-                Ok(r) if r.ok() => Ok(r.body),
-                Ok(r) => Err(r.error()),
-                Err(e) => Err(e),
-            }));
+            sequency.set(Some(api::get::<SequencyAnswer>(&url).await));
         });
     }
 
@@ -297,36 +271,31 @@ fn EntryBody(id: String, body: Value) -> impl IntoView {
     let other = RwSignal::new(String::new());
     let compare = RwSignal::new(None::<String>);
 
-    let props = b.get("properties").cloned().unwrap_or(Value::Null);
-    let prop_items: Vec<(String, String)> = ["normalized", "symmetric", "skew", "regular"]
-        .into_iter()
-        .map(|k| {
-            (
-                k.to_string(),
-                match api::b(&props, k) {
-                    Some(true) => "yes".into(),
-                    Some(false) => "no".into(),
-                    None => "—".into(),
-                },
-            )
-        })
-        .chain(
-            props
-                .get("excess")
-                .map(|e| ("excess".to_string(), api::plain(e))),
-        )
-        .collect();
-    let prov = b.get("provenance").cloned().unwrap_or(Value::Null);
-    let provenance = provenance_view(
-        &prov,
-        b.get("catalogue_entry").is_some_and(|e| !e.is_null()),
-        order,
-    );
-    let invariant = b
-        .get("invariant")
-        .and_then(|i| api::s(i, "kind"))
-        .map(|k| k.replace('_', " "));
-    let verification = b.get("verification").cloned().unwrap_or(Value::Null);
+    let yes_no = |on: Option<bool>| match on {
+        Some(true) => "yes".to_string(),
+        Some(false) => "no".to_string(),
+        None => "—".to_string(),
+    };
+    let p = b.properties.as_ref();
+    let prop_items: Vec<(String, String)> = vec![
+        ("normalized".into(), yes_no(p.map(|p| p.normalized))),
+        ("symmetric".into(), yes_no(p.map(|p| p.symmetric))),
+        ("skew".into(), yes_no(p.map(|p| p.skew))),
+        ("regular".into(), yes_no(p.map(|p| p.regular))),
+    ]
+    .into_iter()
+    .chain(p.map(|p| ("excess".to_string(), p.excess.to_string())))
+    .collect();
+    let prov = b.provenance.clone();
+    let provenance = provenance_view(&prov, b.catalogue_entry.is_some(), order);
+    let invariant = b.invariant.as_ref().map(|i| i.kind.replace('_', " "));
+    let v = &b.verification;
+    let verification = vec![
+        ("check".to_string(), v.check.clone()),
+        ("check version".to_string(), v.check_version.to_string()),
+        ("kernel".to_string(), v.kernel.clone()),
+        ("verified at".to_string(), v.verified_at.clone()),
+    ];
     let order_link = format!("/orders/{order}");
     let png = format!("/api/matrices/{id}/download?format=png");
     let cite = format!(
@@ -360,7 +329,7 @@ fn EntryBody(id: String, body: Value) -> impl IntoView {
             <h3>"Provenance"</h3>
             {provenance}
             <h3>"Verification record"</h3>
-            {dl(facts_list(&verification))}
+            {dl(verification)}
         </section>
         <section class="card" aria-labelledby="cite-title">
             <h2 id="cite-title">"Cite this"</h2>

@@ -8,12 +8,19 @@
 //! live in the server's copy of core, not in the bundle. The only arithmetic done here is
 //! naming the nearest possible orders around an impossible one.
 
-use crate::api::{self, Reply};
+use crate::api::{self, Answer};
 use crate::app::navigate;
 use crate::words::{self, method_name, status_label, status_sentence, yields_matrix};
 use hadamard_core::query::{self, Kind, Lookup};
+use hadamard_core::route::{Factoring, Status};
+use hadamard_core::verify::Properties;
+use hadamard_core::wire::{
+    name_of, CatalogueMatrix, DimensionAnswer, IdPrefixAnswer, MatrixList, OrderAnswer, Origin,
+    RouteView, StepView,
+};
 use leptos::prelude::*;
 use leptos::task::spawn_local;
+use serde::de::DeserializeOwned;
 use serde_json::Value;
 
 /// What the home page was asked, from its URL.
@@ -37,10 +44,13 @@ impl Query {
     }
 }
 
-/// A fetch whose answer lands in a signal (`None` while it is on its way).
-pub fn fetch(url: String) -> RwSignal<Option<Result<Reply, String>>> {
+/// A fetch whose answer, read as `T`, lands in a signal (`None` while it is on its way).
+pub fn fetch<T>(url: String) -> RwSignal<Option<Answer<T>>>
+where
+    T: DeserializeOwned + Send + Sync + 'static,
+{
     let out = RwSignal::new(None);
-    spawn_local(async move { out.set(Some(api::get(&url).await)) });
+    spawn_local(async move { out.set(Some(api::get::<T>(&url).await)) });
     out
 }
 
@@ -91,12 +101,9 @@ pub fn LookupForm(
                     };
                     problem.set(None);
                     spawn_local(async move {
-                        match api::get(&format!("/api/id-prefix/{p}")).await {
-                            Ok(r) if r.ok() => {
-                                let ids: Vec<String> = api::arr(&r.body, "ids")
-                                    .iter()
-                                    .filter_map(|v| v.as_str().map(str::to_string))
-                                    .collect();
+                        match api::get::<IdPrefixAnswer>(&format!("/api/id-prefix/{p}")).await {
+                            Ok(r) => {
+                                let ids = r.ids;
                                 match ids.as_slice() {
                                     [one] => navigate(&format!("/m/{one}")),
                                     [] => problem.set(Some(format!(
@@ -111,8 +118,7 @@ pub fn LookupForm(
                                     }
                                 }
                             }
-                            Ok(r) => problem.set(Some(r.error())),
-                            Err(e) => problem.set(Some(e)),
+                            Err(e) => problem.set(Some(e.message)),
                         }
                     });
                 }
@@ -230,13 +236,10 @@ fn catalogue_id(
         }
         started.set_value(true);
         spawn_local(async move {
-            let got = match api::get(&format!("/api/orders/{n}/matrix")).await {
-                Ok(r) if r.ok() => api::s(&r.body, "id")
-                    .map(str::to_string)
-                    .ok_or_else(|| "the server gave no id".to_string()),
-                Ok(r) => Err(r.error()),
-                Err(e) => Err(e),
-            };
+            let got = api::get::<CatalogueMatrix>(&format!("/api/orders/{n}/matrix"))
+                .await
+                .map(|m| m.id)
+                .map_err(|e| e.message);
             out.set(Some(got));
         });
     });
@@ -247,18 +250,12 @@ fn catalogue_id(
 fn smallest_buildable(at_least: u64) -> RwSignal<Option<Result<u64, String>>> {
     let out = RwSignal::new(None);
     spawn_local(async move {
-        let got = match api::get(&format!(
+        let got = api::get::<OrderAnswer>(&format!(
             "/api/smallest-known?at-least={at_least}&constructible=true"
         ))
         .await
-        {
-            Ok(r) if r.ok() => {
-                let info = r.body.get("info").cloned().unwrap_or(r.body.clone());
-                api::u(&info, "order").ok_or_else(|| "the server gave no order".to_string())
-            }
-            Ok(r) => Err(r.error()),
-            Err(e) => Err(e),
-        };
+        .map(|info| info.order)
+        .map_err(|e| e.message);
         out.set(Some(got));
     });
     out
@@ -499,15 +496,13 @@ fn UseIt(d: u64, a: u32, m: u64) -> impl IntoView {
 /// A dimension's factorings, ranked by the size of the Hadamard factor m.
 #[component]
 fn DimensionAnswer(d: u64) -> impl IntoView {
-    let reply = fetch(format!("/api/dimensions/{d}"));
+    let reply = fetch::<DimensionAnswer>(format!("/api/dimensions/{d}"));
     let max = max_order();
     view! {
         {move || match reply.get() {
-            Some(Ok(r)) if r.ok() => {
-                let best = api::arr(&r.body, "options").first().and_then(|f| {
-                    let a = u32::try_from(api::u(f, "power_of_two")?).ok()?;
-                    let m = api::u(f, "dense")?;
-                    (api::s(f, "status") == Some("constructible")).then_some((a, m))
+            Some(Ok(advice)) => {
+                let best = advice.options.first().and_then(|f| {
+                    (f.status == Status::Constructible).then_some((f.power_of_two, f.dense))
                 });
                 best.map(|(a, m)| view! { <UseIt d=d a=a m=m /> })
             }
@@ -517,15 +512,13 @@ fn DimensionAnswer(d: u64) -> impl IntoView {
             <h2 id="dim-title">{format!("Every way to reach size {d}")}</h2>
             {move || match reply.get() {
                 None => view! { <p class="waiting">"Asking the catalogue…"</p> }.into_any(),
-                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-                Some(Ok(r)) => {
-                    let b = r.body;
-                    let note = api::s(&b, "note").unwrap_or_default().to_string();
-                    let row = |f: &Value, rank: Option<usize>| {
-                        let dense = api::u(f, "dense").unwrap_or(0);
-                        let status = api::s(f, "status").unwrap_or("").to_string();
-                        let factored = api::s(f, "factored").map(str::to_string).unwrap_or_else(|| format!("2^{} · {dense}", api::u(f, "power_of_two").unwrap_or(0)));
+                Some(Err(e)) => view! { <p class="bad">{e.message}</p> }.into_any(),
+                Some(Ok(b)) => {
+                    let note = b.note.clone();
+                    let row = |f: &Factoring, rank: Option<usize>| {
+                        let dense = f.dense;
+                        let status = name_of(&f.status);
+                        let factored = f.factored.clone();
                         let file = if status == "constructible" && dense <= max {
                             view! { <a href=format!("/api/orders/{dense}/matrix/download?format=npy") download="" data-factor-row=dense>{format!("H_{dense} .npy")}</a> }.into_any()
                         } else if status == "constructible" {
@@ -543,8 +536,8 @@ fn DimensionAnswer(d: u64) -> impl IntoView {
                             </tr>
                         }
                     };
-                    let options: Vec<_> = api::arr(&b, "options").iter().enumerate().map(|(i, f)| row(f, Some(i + 1))).collect();
-                    let blocked: Vec<_> = api::arr(&b, "blocked").iter().map(|f| row(f, None)).collect();
+                    let options: Vec<_> = b.options.iter().enumerate().map(|(i, f)| row(f, Some(i + 1))).collect();
+                    let blocked: Vec<_> = b.blocked.iter().map(|f| row(f, None)).collect();
                     let has_any = !options.is_empty() || !blocked.is_empty();
                     view! {
                         <p class="answer">{note}</p>
@@ -565,16 +558,13 @@ fn DimensionAnswer(d: u64) -> impl IntoView {
 }
 
 /// One node of a route tree, with its children.
-pub fn node_view(v: &Value, top: u64) -> AnyView {
-    let method = api::s(v, "method").unwrap_or("").to_string();
-    let order = api::u(v, "order").unwrap_or(0);
-    let buildable = api::b(v, "buildable").unwrap_or(false);
-    let reference = api::s(v, "reference").unwrap_or("").to_string();
-    let params = v
-        .get("params")
-        .and_then(Value::as_object)
-        .cloned()
-        .unwrap_or_default();
+pub fn node_view(v: &StepView, top: u64) -> AnyView {
+    let method = name_of(&v.method);
+    let order = v.order;
+    let buildable = v.buildable;
+    let reference = v.reference.clone();
+    // The parameters are shown generically, as the recipe writes them.
+    let params = v.params.clone();
     let kind = params
         .get("kind")
         .and_then(Value::as_str)
@@ -601,10 +591,7 @@ pub fn node_view(v: &Value, top: u64) -> AnyView {
             (k.clone(), text)
         })
         .collect();
-    let children: Vec<AnyView> = api::arr(v, "children")
-        .iter()
-        .map(|c| node_view(c, top))
-        .collect();
+    let children: Vec<AnyView> = v.children.iter().map(|c| node_view(c, top)).collect();
     view! {
         <li class="node">
             <div class="step">
@@ -624,13 +611,13 @@ pub fn node_view(v: &Value, top: u64) -> AnyView {
     .into_any()
 }
 
-fn route_view(i: usize, r: &Value, n: u64, over: bool) -> impl IntoView {
-    let method = api::s(r, "method").unwrap_or("").to_string();
-    let buildable = api::b(r, "buildable").unwrap_or(false);
-    let dense = api::u(r, "largest_dense_factor");
-    let ingredients: Vec<String> = api::arr(r, "ingredients").iter().map(api::plain).collect();
-    let skew = api::b(r, "skew").unwrap_or(false);
-    let tree = r.get("tree").map(|t| node_view(t, n));
+fn route_view(i: usize, r: &RouteView, n: u64, over: bool) -> impl IntoView {
+    let method = name_of(&r.method);
+    let buildable = r.buildable;
+    let dense = Some(r.largest_dense_factor);
+    let ingredients: Vec<String> = r.ingredients.clone();
+    let skew = r.skew;
+    let tree = Some(node_view(&r.tree, n));
     let summary = format!("Route {}: {}", i + 1, method_name(&method));
     view! {
         <details class="route" open=i == 0>
@@ -652,16 +639,20 @@ fn route_view(i: usize, r: &Value, n: u64, over: bool) -> impl IntoView {
     }
 }
 
-fn properties_tags(p: Option<&Value>) -> impl IntoView {
-    let names = ["normalized", "symmetric", "skew", "regular"];
+fn properties_tags(p: Option<&Properties>) -> impl IntoView {
     let on: Vec<&str> = match p {
-        Some(p) => names
-            .into_iter()
-            .filter(|k| api::b(p, k) == Some(true))
-            .collect(),
+        Some(p) => [
+            ("normalized", p.normalized),
+            ("symmetric", p.symmetric),
+            ("skew", p.skew),
+            ("regular", p.regular),
+        ]
+        .into_iter()
+        .filter_map(|(k, on)| on.then_some(k))
+        .collect(),
         None => Vec::new(),
     };
-    let excess = p.and_then(|p| p.get("excess")).and_then(Value::as_i64);
+    let excess = p.map(|p| p.excess);
     view! {
         <span class="props">
             {if on.is_empty() { "no special properties".to_string() } else { on.join(", ") }}
@@ -672,37 +663,31 @@ fn properties_tags(p: Option<&Value>) -> impl IntoView {
 
 #[component]
 fn StoredMatrices(n: u64) -> impl IntoView {
-    let reply = fetch(format!("/api/orders/{n}/matrices"));
+    let reply = fetch::<MatrixList>(format!("/api/orders/{n}/matrices"));
     view! {
         <section class="card" aria-labelledby="stored-title" aria-live="polite">
             <h2 id="stored-title">"In the catalogue"</h2>
             {move || match reply.get() {
                 None => view! { <p class="waiting">"Looking for stored matrices (a buildable order is built now if none is stored)…"</p> }.into_any(),
-                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-                Some(Ok(r)) => {
-                    let items: Vec<Value> = match &r.body {
-                        Value::Array(a) => a.clone(),
-                        b => api::arr(b, "matrices").to_vec(),
-                    };
+                Some(Err(e)) => view! { <p class="bad">{e.message}</p> }.into_any(),
+                Some(Ok(list)) => {
+                    let items = list.matrices;
                     if items.is_empty() {
                         return view! { <p>{format!("No matrix of order {n} is stored yet.")}</p> }.into_any();
                     }
                     view! {
                         <ul class="stored">
                             {items.into_iter().map(|m| {
-                                let id = api::s(&m, "id").unwrap_or_default().to_string();
+                                let id = m.id.clone();
                                 let short = format!("{}…", &id[..id.len().min(16)]);
-                                let prov = match api::s(&m, "origin") {
-                                    Some("constructed") => "built by this program".to_string(),
-                                    Some("uploaded") => format!("uploaded {}", api::s(&m, "created_at").unwrap_or_default()),
-                                    Some(o) => o.to_string(),
-                                    None => String::new(),
+                                let prov = match m.origin {
+                                    Origin::Constructed => "built by this program".to_string(),
+                                    Origin::Uploaded => format!("uploaded {}", m.created_at),
                                 };
                                 view! {
                                     <li>
                                         <a class="id" href=format!("/m/{id}")>{short}</a>" "
-                                        {properties_tags(m.get("properties"))}
+                                        {properties_tags(m.properties.as_ref())}
                                         {(!prov.is_empty()).then(|| view! { <span class="prov">{format!(" · {prov}")}</span> })}
                                     </li>
                                 }
@@ -727,7 +712,7 @@ fn StoredMatrices(n: u64) -> impl IntoView {
 /// The page of one order: status, routes, stored matrices.
 #[component]
 pub fn OrderPage(n: u64) -> impl IntoView {
-    let reply = fetch(format!("/api/orders/{n}"));
+    let reply = fetch::<OrderAnswer>(format!("/api/orders/{n}"));
     let max = max_order();
     let over = n > max;
     view! {
@@ -737,14 +722,12 @@ pub fn OrderPage(n: u64) -> impl IntoView {
             <h2 id="status-title" class="visually-hidden">"Status"</h2>
             {move || match reply.get() {
                 None => view! { <p class="waiting">"Asking the catalogue…"</p> }.into_any(),
-                Some(Err(e)) => view! { <p class="bad">{e}</p> }.into_any(),
-                Some(Ok(r)) if !r.ok() => view! { <p class="bad">{r.error()}</p> }.into_any(),
-                Some(Ok(r)) => {
-                    let b = r.body;
-                    let status = api::s(&b, "status").unwrap_or("").to_string();
-                    let note = api::s(&b, "note").unwrap_or_default().to_string();
-                    let lit = api::s(&b, "literature").map(str::to_string);
-                    let routes: Vec<_> = api::arr(&b, "routes").iter().enumerate().map(|(i, r)| route_view(i, r, n, over)).collect();
+                Some(Err(e)) => view! { <p class="bad">{e.message}</p> }.into_any(),
+                Some(Ok(b)) => {
+                    let status = name_of(&b.status);
+                    let note = b.note.clone();
+                    let lit = b.literature.clone();
+                    let routes: Vec<_> = b.routes.iter().enumerate().map(|(i, r)| route_view(i, r, n, over)).collect();
                     let impossible = status == "impossible";
                     let nearest = impossible.then(|| {
                         let (below, above) = words::nearest_orders(n);

@@ -19,10 +19,10 @@ use hadamard_core::diagnose::{self, diagnose};
 use hadamard_core::formats::{self, Format, ReadOptions};
 use hadamard_core::repair::{Completion, CompletionLimits, CompletionReport, Proof};
 use hadamard_core::verify::{Failure, Progressive, Report};
+use hadamard_core::wire::UploadAnswer;
 use hadamard_core::Matrix;
 use leptos::prelude::*;
 use leptos::task::spawn_local;
-use serde_json::Value;
 use std::sync::Arc;
 use wasm_bindgen_futures::JsFuture;
 
@@ -313,17 +313,12 @@ fn size_words(bytes: usize) -> String {
 }
 
 /// The ids the server found possibly equivalent (same invariant), and its note about them.
-fn equivalence_of(body: &Value) -> (Vec<String>, Option<String>) {
-    let e = body.get("equivalence").unwrap_or(&Value::Null);
-    let ids = api::arr(e, "possibly_equivalent_to")
-        .iter()
-        .filter_map(|v| {
-            v.as_str()
-                .map(str::to_string)
-                .or_else(|| api::s(v, "id").map(str::to_string))
-        })
-        .collect();
-    (ids, api::s(e, "note").map(str::to_string))
+fn equivalence_of(body: &UploadAnswer) -> (Vec<String>, Option<String>) {
+    let e = &body.equivalence;
+    (
+        e.possibly_equivalent_to.clone().unwrap_or_default(),
+        Some(e.note.clone()),
+    )
 }
 
 /// The verify screen: input, progress, verdict, picture, repairs, publishing.
@@ -405,27 +400,27 @@ pub fn VerifyPanel(
         };
         publish.set(Publish::Sending);
         spawn_local(async move {
-            let answer = api::post_bytes("/api/matrices", &src.bytes).await;
+            let answer = api::post_bytes::<UploadAnswer>("/api/matrices", &src.bytes).await;
             publish.set(match answer {
-                Ok(r) if r.status == 200 || r.status == 201 => {
-                    let id = api::s(&r.body, "id").unwrap_or_default().to_string();
-                    let url = api::s(&r.body, "url")
-                        .map(str::to_string)
-                        .unwrap_or_else(|| format!("/m/{id}"));
-                    let (similar, note) = equivalence_of(&r.body);
+                Ok((status, r)) => {
+                    let id = r.id.clone();
+                    let url = r.url.clone();
+                    let (similar, note) = equivalence_of(&r);
                     Publish::Stored {
-                        existed: r.status == 200,
+                        existed: status == 200,
                         similar: similar.into_iter().filter(|s| *s != id).collect(),
                         note,
                         id,
                         url,
                     }
                 }
-                Ok(r) if r.status == 413 => {
+                Err(e) if e.status == 413 => {
                     Publish::Refused("The file is larger than the server accepts.".into())
                 }
-                Ok(r) => Publish::Refused(format!("The server refused it: {}", r.error())),
-                Err(e) => Publish::Refused(format!("Not published: {e}.")),
+                Err(e) if e.status == 0 => {
+                    Publish::Refused(format!("Not published: {}.", e.message))
+                }
+                Err(e) => Publish::Refused(format!("The server refused it: {}", e.message)),
             });
         });
     };

@@ -35,7 +35,7 @@ use super::invariant::{Invariants, Profile};
 use super::DeriveError;
 use crate::matrix::Matrix;
 use crate::verify::Verified;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
 
 /// The largest order whose invariants are computed (their cost grows as n⁵).
@@ -45,7 +45,7 @@ pub const INVARIANT_MAX_ORDER: usize = 128;
 pub const DEFAULT_NODE_BUDGET: u64 = 2_000_000;
 
 /// B[row_map[i]][col_map[j]] = row_signs[i]·col_signs[j]·A[i][j] for all i, j.
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
 pub struct Certificate {
     pub row_map: Vec<usize>,
     pub row_signs: Vec<i8>,
@@ -89,7 +89,7 @@ pub fn check_certificate(a: &Matrix, b: &Matrix, c: &Certificate) -> bool {
 }
 
 /// The verdict.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "lowercase")]
 pub enum Verdict {
     Equivalent,
@@ -98,17 +98,17 @@ pub enum Verdict {
 }
 
 /// An invariant that tells the two matrices apart.
-#[derive(Clone, Debug, PartialEq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct DifferingInvariant {
     /// `profile4`, `profile4_transpose`, `row_profiles`, `column_profiles`,
     /// `row_pair_profiles` or `column_pair_profiles`.
-    pub name: &'static str,
+    pub name: String,
     pub a: serde_json::Value,
     pub b: serde_json::Value,
 }
 
 /// The answer to "are A and B equivalent?".
-#[derive(Clone, Debug, PartialEq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct EquivalenceReport {
     pub order: usize,
     pub a_id: String,
@@ -158,7 +158,7 @@ pub fn equivalence(
             report.verdict = Verdict::Inequivalent;
             report.note = format!("inequivalent: their {} differ, an invariant of every row and column permutation and negation", describe(name));
             report.invariant = Some(DifferingInvariant {
-                name,
+                name: name.to_owned(),
                 a: ia.value_of(name),
                 b: ib.value_of(name),
             });
@@ -672,7 +672,7 @@ mod tests {
         let p = paley_one(31).unwrap();
         let r = equivalence(&s, &p, 0).unwrap();
         assert_eq!(
-            (r.verdict, r.invariant.as_ref().map(|i| i.name)),
+            (r.verdict, r.invariant.as_ref().map(|i| i.name.as_str())),
             (Verdict::Inequivalent, Some("profile4"))
         );
         assert_eq!(

@@ -25,7 +25,7 @@
 use super::DeriveError;
 use crate::matrix::Matrix;
 use crate::verify::{certify, Verified};
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::str::FromStr;
 
 /// A row order.
@@ -60,7 +60,7 @@ pub fn sequency(m: &Matrix, i: usize) -> usize {
 }
 
 /// Whether sequency order is defined for a matrix, and why not when it is not.
-#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
 pub struct SequencyReport {
     /// Each row's sequency, in the given order.
     pub sequencies: Vec<usize>,

@@ -231,6 +231,47 @@ impl Serialize for Location {
     }
 }
 
+impl<'de> serde::Deserialize<'de> for Location {
+    /// The form [`Location`]'s `Serialize` writes, read back (for the API's clients).
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Location, D::Error> {
+        #[derive(serde::Deserialize)]
+        #[serde(deny_unknown_fields)]
+        struct Place {
+            line: Option<usize>,
+            column: Option<usize>,
+            element: Option<usize>,
+            byte: Option<usize>,
+        }
+        let place: Option<Place> = serde::Deserialize::deserialize(d)?;
+        Ok(match place {
+            None => Location::Nowhere,
+            Some(Place {
+                line: Some(line),
+                column: Some(col),
+                element: None,
+                byte: None,
+            }) => Location::LineCol { line, col },
+            Some(Place {
+                line: None,
+                column: None,
+                element: Some(k),
+                byte: None,
+            }) => Location::Element(k),
+            Some(Place {
+                line: None,
+                column: None,
+                element: None,
+                byte: Some(b),
+            }) => Location::Byte(b),
+            Some(_) => {
+                return Err(serde::de::Error::custom(
+                    "a location is {line, column}, {element} or {byte}",
+                ))
+            }
+        })
+    }
+}
+
 /// Why an input could not be read, and where.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct ParseError {

@@ -69,9 +69,9 @@ pub async fn smallest_known(
             };
             let mut e =
                 ApiError::not_found(format!("no {what} order at least {k} was found: {why}"))
-                    .with("at_least", k);
+                    .and(|b| b.at_least = Some(k));
             if limit >= k {
-                e = e.with("searched_up_to", limit);
+                e = e.and(|b| b.searched_up_to = Some(limit));
             }
             Err(e)
         }

@@ -8,7 +8,7 @@ use axum::extract::{Query, State};
 use axum::response::IntoResponse;
 use axum::Json;
 use hadamard_core::route;
-use serde_json::json;
+use hadamard_core::wire::{status_from_name, CoverageEntry};
 use std::collections::HashMap;
 use std::sync::Arc;
 
@@ -39,9 +39,17 @@ pub async fn show(
         })
         .await?
     };
-    let body: Vec<_> = list
+    let body = list
         .into_iter()
-        .map(|(n, s)| json!({"order": n, "status": s}))
-        .collect();
+        .map(|(order, s)| {
+            let status = status_from_name(&s).ok_or_else(|| {
+                tracing::error!(order, status = %s, "the store holds an unknown status");
+                ApiError::internal(
+                    "the catalogue's database holds an unknown status; the error is logged",
+                )
+            })?;
+            Ok(CoverageEntry { order, status })
+        })
+        .collect::<ApiResult<Vec<_>>>()?;
     Ok(Json(body).into_response())
 }

@@ -23,19 +23,12 @@ use hadamard_core::derive::DeriveError;
 use hadamard_core::formats::{self, WriteFormat};
 use hadamard_core::route;
 use hadamard_core::verify::Verified;
-use serde_json::Value;
+use hadamard_core::wire::BrrAnswer;
 use std::collections::HashMap;
 use std::sync::Arc;
 
 /// The kinds of `/derive/{kind}`.
-pub const KINDS: &[&str] = &[
-    "screening",
-    "brr",
-    "code",
-    "symmetric-design",
-    "ordering",
-    "sequency",
-];
+pub use hadamard_core::wire::endpoints::DERIVE_KINDS as KINDS;
 
 /// The largest order whose designs, codes and replicates are served (their JSON grows as n²).
 pub const DERIVE_MAX_ORDER: usize = 2048;
@@ -47,7 +40,7 @@ const EQUIVALENCE_WORK: u64 = 4_000_000_000;
 type Q = HashMap<String, String>;
 
 fn bad(e: DeriveError) -> ApiError {
-    ApiError::bad_request(e.to_string()).with("parameter", e.parameter)
+    ApiError::bad_request(e.to_string()).parameter(e.parameter)
 }
 
 fn number<T: std::str::FromStr>(q: &Q, name: &str) -> ApiResult<Option<T>> {
@@ -58,7 +51,7 @@ fn number<T: std::str::FromStr>(q: &Q, name: &str) -> ApiResult<Option<T>> {
                     "{name} must be a non-negative integer, not `{}`",
                     truncate(s, 40)
                 ))
-                .with("parameter", name)
+                .parameter(name)
             })
         })
         .transpose()
@@ -72,7 +65,7 @@ fn flag(q: &Q, name: &str) -> ApiResult<bool> {
             "{name} must be true or false, not `{}`",
             truncate(s, 40)
         ))
-        .with("parameter", name)),
+        .parameter(name)),
     }
 }
 
@@ -120,7 +113,7 @@ fn csv_or_json<T: serde::Serialize + Send + 'static>(
             "format must be json or csv here, not `{}`",
             truncate(other, 40)
         ))
-        .with("parameter", "format")),
+        .parameter("format")),
     }
 }
 
@@ -147,7 +140,7 @@ pub async fn derive(
     }
     let v = load(&state, &id).await?;
     if kind != "ordering" && v.order() > DERIVE_MAX_ORDER {
-        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("derived objects are served up to order {DERIVE_MAX_ORDER}; this matrix has order {} (the command line has no such limit)", v.order())).with("limit", DERIVE_MAX_ORDER));
+        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("derived objects are served up to order {DERIVE_MAX_ORDER}; this matrix has order {} (the command line has no such limit)", v.order())).limit(DERIVE_MAX_ORDER));
     }
     heavy(&state, move |_| derive_now(&v, &kind, &q)).await?
 }
@@ -170,7 +163,7 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                                         k + 1,
                                         truncate(p, 40)
                                     ))
-                                    .with("parameter", "levels")
+                                    .parameter("levels")
                                 })
                         })
                         .collect::<ApiResult<Vec<_>>>()?,
@@ -189,7 +182,7 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
                                     k + 1,
                                     truncate(c, 40)
                                 ))
-                                .with("parameter", "columns")
+                                .parameter("columns")
                             })
                         })
                         .collect::<ApiResult<Vec<_>>>()?,
@@ -216,8 +209,7 @@ fn derive_now(v: &Verified, kind: &str, q: &Q) -> ApiResult {
         }
         "brr" => {
             let k = number(q, "strata")?.ok_or_else(|| {
-                ApiError::bad_request("give the number of strata as ?strata=k")
-                    .with("parameter", "strata")
+                ApiError::bad_request("give the number of strata as ?strata=k").parameter("strata")
             })?;
             let r = replication(v, k).map_err(bad)?;
             csv_or_json(q, v, "brr", r, |r, b| r.write_csv(b))
@@ -259,11 +251,8 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
         Err(e) => {
             return Err(
                 ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, e.to_string())
-                    .with("parameter", e.parameter)
-                    .with(
-                        "sequency",
-                        serde_json::to_value(sequency_report(v.matrix())).unwrap_or(Value::Null),
-                    ),
+                    .parameter(e.parameter)
+                    .and(|b| b.sequency = Some(sequency_report(v.matrix()))),
             )
         }
     };
@@ -287,7 +276,7 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
                     "scaled output is floats: format must be csv, json or npy-f64, not `{}`",
                     truncate(other, 40)
                 ))
-                .with("parameter", "format"))
+                .parameter("format"))
             }
         };
         // ±1/√n written by Rust's shortest round-trip float printing, with a separator.
@@ -305,12 +294,11 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
                 "unknown format `{}`: use pm, csv, bits, json, npy, npy-f64 or png",
                 truncate(name, 40)
             ))
-            .with("parameter", "format")
+            .parameter("format")
         })?;
         if let WriteFormat::NpyF64 { scaled: true } = f {
             return Err(
-                ApiError::bad_request("ask for scaled output with scaled=true")
-                    .with("parameter", "format"),
+                ApiError::bad_request("ask for scaled output with scaled=true").parameter("format"),
             );
         }
         // The largest cell is a JSON `-1,` (3 bytes) or an npy float64 (8).
@@ -329,8 +317,8 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
             StatusCode::UNPROCESSABLE_ENTITY,
             format!("this answer would be about {} MiB, over this server's limit of {} MiB for an ordering; ask for a smaller format (npy-f64 for floats, bits or npy for ±1)", bytes >> 20, ORDERING_MAX_BYTES >> 20),
         )
-        .with("parameter", "format")
-        .with("limit_bytes", ORDERING_MAX_BYTES));
+        .parameter("format")
+        .and(|b| b.limit_bytes = Some(ORDERING_MAX_BYTES)));
     }
     let mut resp = file(body, media, v, &what, ext);
     if let Ok(h) = HeaderValue::from_str(&id) {
@@ -351,12 +339,12 @@ fn ordering(v: &Verified, q: &Q) -> ApiResult {
 /// greater than k that this program builds, with the smallest known order beside it.
 pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiResult {
     let k: usize = number(&q, "strata")?.ok_or_else(|| {
-        ApiError::bad_request("give the number of strata as ?strata=k").with("parameter", "strata")
+        ApiError::bad_request("give the number of strata as ?strata=k").parameter("strata")
     })?;
     if k == 0 || k >= DERIVE_MAX_ORDER {
         return Err(
             ApiError::bad_request(format!("strata must be 1 to {}", DERIVE_MAX_ORDER - 1))
-                .with("parameter", "strata"),
+                .parameter("strata"),
         );
     }
     let (known, built) = heavy(&state, move |_| {
@@ -371,8 +359,7 @@ pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiR
             "no order greater than {k} is within this program's reach"
         )));
     };
-    let entry = catalogue_entry(&state, n).await?;
-    let id = entry["id"].as_str().unwrap_or_default().to_owned();
+    let id = catalogue_entry(&state, n).await?.id;
     let v = load(&state, &id).await?;
     let source = v.clone();
     let r = heavy(&state, move |_| replication(&source, k))
@@ -387,16 +374,7 @@ pub async fn brr(State(state): State<Arc<AppState>>, Query(q): Query<Q>) -> ApiR
             "csv",
         ));
     }
-    /// The replicates with the orders beside them, written straight out.
-    #[derive(serde::Serialize)]
-    struct Answer<T> {
-        #[serde(flatten)]
-        replication: T,
-        smallest_known_order: Option<u64>,
-        smallest_constructible_order: u64,
-        url: String,
-    }
-    Ok(stream_json(Answer {
+    Ok(stream_json(BrrAnswer {
         replication: r,
         smallest_known_order: known,
         smallest_constructible_order: n,
@@ -411,7 +389,7 @@ pub async fn equivalent(State(state): State<Arc<AppState>>, Query(q): Query<Q>) 
             ApiError::bad_request(format!(
                 "give both matrix ids as ?a=ID&b=ID ({name} is missing)"
             ))
-            .with("parameter", name)
+            .parameter(name)
         })
     };
     let a = parse_id(get("a")?)?.to_owned();
@@ -419,7 +397,7 @@ pub async fn equivalent(State(state): State<Arc<AppState>>, Query(q): Query<Q>) 
     let (va, vb) = (load(&state, &a).await?, load(&state, &b).await?);
     let n = va.order();
     if n > EQUIVALENCE_MAX_ORDER {
-        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("equivalence is searched here up to order {EQUIVALENCE_MAX_ORDER}; `hadamard equiv` has no such limit")).with("limit", EQUIVALENCE_MAX_ORDER));
+        return Err(ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, format!("equivalence is searched here up to order {EQUIVALENCE_MAX_ORDER}; `hadamard equiv` has no such limit")).limit(EQUIVALENCE_MAX_ORDER));
     }
     let cap = (EQUIVALENCE_WORK / (n as u64 * n as u64).max(1)).max(1);
     let budget = number::<u64>(&q, "budget")?.unwrap_or(DEFAULT_NODE_BUDGET.min(cap));
@@ -427,8 +405,8 @@ pub async fn equivalent(State(state): State<Arc<AppState>>, Query(q): Query<Q>) 
         return Err(ApiError::bad_request(format!(
             "budget is at most {cap} nodes at order {n} on this server"
         ))
-        .with("parameter", "budget")
-        .with("limit", cap));
+        .parameter("budget")
+        .limit(cap));
     }
     let r = heavy(&state, move |_| equivalence(&va, &vb, budget))
         .await?

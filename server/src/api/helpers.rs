@@ -7,29 +7,63 @@ use crate::store::StoreError;
 use axum::http::{header, HeaderMap, HeaderValue, StatusCode};
 use axum::response::{IntoResponse, Response};
 use axum::Json;
-use serde_json::{json, Value};
+use hadamard_core::wire::{ErrorBody, ErrorKind, NotHadamardBody};
 use std::sync::Arc;
 
-/// An error answer: a status and a JSON object with at least `"error"`.
+/// An error answer: a status and its body, one of the API's error types
+/// ([`ErrorBody`] with the fields that help, or the not-Hadamard report of an upload).
 #[derive(Debug)]
 pub struct ApiError {
     pub status: StatusCode,
-    pub body: Value,
+    pub body: Box<ErrorBody>,
+    /// Set for an upload that is well-formed but not Hadamard: this is the answer then.
+    pub not_hadamard: Option<Box<NotHadamardBody>>,
 }
 
 impl ApiError {
     pub fn new(status: StatusCode, message: impl Into<String>) -> ApiError {
         ApiError {
             status,
-            body: json!({ "error": message.into() }),
+            body: Box::new(ErrorBody::new(message)),
+            not_hadamard: None,
         }
     }
 
-    /// Adds a field to the body.
-    pub fn with(mut self, key: &str, value: impl Into<Value>) -> ApiError {
-        if let Value::Object(o) = &mut self.body {
-            o.insert(key.to_owned(), value.into());
+    /// The 422 of an upload that is well-formed but not Hadamard.
+    pub fn not_hadamard(body: NotHadamardBody) -> ApiError {
+        ApiError {
+            status: StatusCode::UNPROCESSABLE_ENTITY,
+            body: Box::new(ErrorBody::new(body.error.clone())),
+            not_hadamard: Some(Box::new(body)),
         }
+    }
+
+    pub fn kind(mut self, kind: ErrorKind) -> ApiError {
+        self.body.kind = Some(kind);
+        self
+    }
+
+    /// The query or path parameter that is wrong.
+    pub fn parameter(mut self, name: impl Into<String>) -> ApiError {
+        self.body.parameter = Some(name.into());
+        self
+    }
+
+    /// The limit that was exceeded.
+    pub fn limit(mut self, limit: impl TryInto<u64>) -> ApiError {
+        self.body.limit = limit.try_into().ok();
+        self
+    }
+
+    /// The order the request was about.
+    pub fn order(mut self, order: impl TryInto<u64>) -> ApiError {
+        self.body.order = order.try_into().ok();
+        self
+    }
+
+    /// Changes the body's other fields.
+    pub fn and(mut self, f: impl FnOnce(&mut ErrorBody)) -> ApiError {
+        f(&mut self.body);
         self
     }
 
@@ -48,7 +82,10 @@ impl ApiError {
 
 impl IntoResponse for ApiError {
     fn into_response(self) -> Response {
-        (self.status, Json(self.body)).into_response()
+        match self.not_hadamard {
+            Some(b) => (self.status, Json(b)).into_response(),
+            None => (self.status, Json(self.body)).into_response(),
+        }
     }
 }
 
@@ -60,12 +97,12 @@ impl From<StoreError> for ApiError {
                 StatusCode::INSUFFICIENT_STORAGE,
                 "the catalogue's disk is full: nothing was stored; what was stored before is intact",
             )
-            .with("kind", "disk_full"),
+            .kind(ErrorKind::DiskFull),
             Some(Trouble::ReadOnly) => ApiError::new(
                 StatusCode::SERVICE_UNAVAILABLE,
                 "the catalogue's database is read-only just now: nothing was stored; reading still works",
             )
-            .with("kind", "read_only"),
+            .kind(ErrorKind::ReadOnly),
             None => ApiError::internal("the catalogue's database failed; the error is logged"),
         }
     }
@@ -165,7 +202,7 @@ pub fn parse_positive(what: &str, s: &str, max: u64) -> ApiResult<u64> {
         Ok(v) if v > max => Err(ApiError::bad_request(format!(
             "{what} {v} is above the largest this server answers for, {max}"
         ))
-        .with("limit", max)),
+        .limit(max)),
         Ok(v) => Ok(v),
         Err(_) => Err(ApiError::bad_request(format!(
             "{what} must be a positive integer, not `{}`",
@@ -337,7 +374,7 @@ mod tests {
             .unwrap_err();
         let e = ApiError::from(StoreError::Sqlite(full));
         assert_eq!(e.status, StatusCode::INSUFFICIENT_STORAGE, "{:?}", e.body);
-        assert_eq!(e.body["kind"], "disk_full");
+        assert_eq!(e.body.kind, Some(ErrorKind::DiskFull));
         drop(c);
         let ro = rusqlite::Connection::open_with_flags(
             &path,
@@ -347,8 +384,8 @@ mod tests {
         let denied = ro.execute("INSERT INTO t VALUES (1)", []).unwrap_err();
         let e = ApiError::from(StoreError::Sqlite(denied));
         assert_eq!(e.status, StatusCode::SERVICE_UNAVAILABLE, "{:?}", e.body);
-        assert_eq!(e.body["kind"], "read_only");
-        assert!(e.body["error"].as_str().unwrap().contains("read-only"));
+        assert_eq!(e.body.kind, Some(ErrorKind::ReadOnly));
+        assert!(e.body.error.contains("read-only"));
         // Other failures stay 500.
         let e = ApiError::from(StoreError::Corrupt("x".into()));
         assert_eq!(e.status, StatusCode::INTERNAL_SERVER_ERROR);

@@ -16,23 +16,18 @@ use hadamard_core::diagnose::{Diagnosis, Verdict};
 use hadamard_core::formats::{self, Format, ReadOptions, WriteFormat};
 use hadamard_core::json::{completion_json, repair_json};
 use hadamard_core::repair::Completion;
-use hadamard_core::verify::Report;
+use hadamard_core::verify::{Properties, Report};
+use hadamard_core::wire::{
+    self, CatalogueRef, DerivedLinks, ErrorKind, InvariantInfo, MatrixInfo, MatrixSummary,
+    NotHadamardBody, Provenance, RowAnswer, UploadAnswer, UploadEquivalence, Verification,
+};
 use http_body_util::{BodyExt, LengthLimitError, Limited};
-use serde_json::{json, Value};
+use serde_json::Value;
 use std::collections::HashMap;
 use std::sync::Arc;
 
 /// The download formats, as `?format=` names.
-pub const DOWNLOAD_FORMATS: &[&str] = &[
-    "pm",
-    "csv",
-    "bits",
-    "json",
-    "npy",
-    "npy-f64",
-    "npy-f64-scaled",
-    "png",
-];
+pub use hadamard_core::wire::endpoints::DOWNLOAD_FORMATS;
 
 /// `POST /api/matrices`: the raw body is a matrix file in any input format (or the one
 /// `?format=` forces; `?bits-minus=0` says `0` stands for −1 in `bits`). The server parses and
@@ -50,7 +45,7 @@ pub async fn upload(
             StatusCode::PAYLOAD_TOO_LARGE,
             format!("the body is larger than this server's limit of {limit} bytes (--max-body)"),
         )
-        .with("limit", limit)
+        .limit(limit)
     };
     // A declared length over the limit is refused before a byte of the body is read.
     let declared = headers
@@ -107,7 +102,7 @@ pub async fn upload(
             Ok((
                 status,
                 [(header::LOCATION, location)],
-                Json(upload_json(&ing)),
+                Json(upload_answer(&ing)),
             )
                 .into_response())
         }
@@ -119,18 +114,12 @@ pub async fn upload(
                 state.config.max_order
             ),
         )
-        .with("kind", "over_max_order")
-        .with("limit", state.config.max_order)
-        .with(
-            "location",
-            serde_json::to_value(p.location).unwrap_or(Value::Null),
-        )),
+        .kind(ErrorKind::OverMaxOrder)
+        .limit(state.config.max_order)
+        .and(|b| b.location = Some(p.location))),
         Err(UploadError::Malformed(p)) => Err(ApiError::bad_request(p.to_string())
-            .with("kind", "malformed")
-            .with(
-                "location",
-                serde_json::to_value(p.location).unwrap_or(Value::Null),
-            )),
+            .kind(ErrorKind::Malformed)
+            .and(|b| b.location = Some(p.location))),
         Err(UploadError::Store(e)) => Err(e.into()),
     }
 }
@@ -204,7 +193,6 @@ async fn read_upload(
 /// The 422 answer to an upload that is not stored, from core's verdict: `incomplete` with what
 /// the erased entries can be, or `not_hadamard` with the report and the wrong signs found.
 fn refusal(report: &Report, d: &Diagnosis) -> ApiError {
-    let (status, verdict) = (StatusCode::UNPROCESSABLE_ENTITY, json!(d.verdict));
     match (d.verdict, &d.completion) {
         (Verdict::Incomplete, Some(completion)) => {
             let erased = d.erasures.len();
@@ -215,27 +203,23 @@ fn refusal(report: &Report, d: &Diagnosis) -> ApiError {
                 Completion::Undecided { .. } => "whether they can be completed was not settled".into(),
             };
             ApiError::new(
-                status,
+                StatusCode::UNPROCESSABLE_ENTITY,
                 format!("incomplete: the matrix has {erased} erased entries (?), and only complete ±1 matrices are stored; {what}"),
             )
-            .with("verdict", verdict)
-            .with("order", report.order)
-            .with("erased_entries", erased)
-            .with("completion", completion_json(completion, &d.erasures))
+            .order(report.order)
+            .and(|b| {
+                b.verdict = Some(d.verdict);
+                b.erased_entries = Some(erased as u64);
+                b.completion = Some(completion_json(completion, &d.erasures));
+            })
         }
-        _ => {
-            let mut body = serde_json::to_value(report).unwrap_or(Value::Null);
-            if let Value::Object(o) = &mut body {
-                o.insert("error".into(), json!(not_hadamard_message(report)));
-                o.insert("verdict".into(), verdict);
-                o.insert("failing_pairs_index_base".into(), json!(0));
-                o.insert(
-                    "repair".into(),
-                    d.repair.as_ref().map_or(Value::Null, repair_json),
-                );
-            }
-            ApiError { status, body }
-        }
+        _ => ApiError::not_hadamard(NotHadamardBody {
+            error: not_hadamard_message(report),
+            verdict: d.verdict,
+            failing_pairs_index_base: 0,
+            repair: d.repair.as_ref().map_or(Value::Null, repair_json),
+            report: report.clone(),
+        }),
     }
 }
 
@@ -256,28 +240,35 @@ fn not_hadamard_message(r: &Report) -> String {
     }
 }
 
-fn upload_json(ing: &Ingested) -> Value {
+fn upload_answer(ing: &Ingested) -> UploadAnswer {
     let r = &ing.record;
-    json!({
-        "verdict": Verdict::Hadamard,
-        "id": r.id,
-        "url": format!("/m/{}", r.id),
-        "api_url": format!("/api/matrices/{}", r.id),
-        "order": r.order,
-        "stored_now": ing.created,
-        "properties": raw_json(&r.properties_json),
-        "provenance": provenance_json(r),
-        "verification": verification_json(r),
-        "equivalence": equivalence_json(&ing.equivalence),
-    })
+    UploadAnswer {
+        verdict: Verdict::Hadamard,
+        id: r.id.clone(),
+        url: format!("/m/{}", r.id),
+        api_url: format!("/api/matrices/{}", r.id),
+        order: r.order as u64,
+        stored_now: ing.created,
+        properties: properties(r),
+        provenance: provenance(r),
+        verification: verification(r),
+        equivalence: equivalence(&ing.equivalence),
+    }
 }
 
-fn equivalence_json(e: &Equivalence) -> Value {
+fn equivalence(e: &Equivalence) -> UploadEquivalence {
     let Some(kind) = e.kind else {
-        return json!({
-            "invariant": null,
-            "note": format!("equivalence was not examined: the 4-profile is computed only up to order {}", crate::catalogue::invariant::PROFILE_MAX_ORDER),
-        });
+        return UploadEquivalence {
+            invariant: None,
+            compared_with: None,
+            possibly_equivalent_to: None,
+            possibly_equivalent_count: None,
+            proven_new: None,
+            note: format!(
+                "equivalence was not examined: the 4-profile is computed only up to order {}",
+                crate::catalogue::invariant::PROFILE_MAX_ORDER
+            ),
+        };
     };
     let note = if e.compared_with == 0 {
         "no other stored matrix of this order to compare with".to_owned()
@@ -290,45 +281,60 @@ fn equivalence_json(e: &Equivalence) -> Value {
             e.compared_with - e.matches
         )
     };
-    json!({
-        "invariant": kind,
-        "compared_with": e.compared_with,
-        "possibly_equivalent_to": e.possibly_equivalent_to,
-        "possibly_equivalent_count": e.matches,
-        "proven_new": e.matches == 0,
-        "note": note,
-    })
-}
-
-fn raw_json(text: &str) -> Value {
-    serde_json::from_str(text).unwrap_or(Value::Null)
-}
-
-fn provenance_json(r: &MatrixRecord) -> Value {
-    match r.origin {
-        Origin::Constructed => {
-            json!({"kind": "constructed", "constructed_at": r.created_at, "recipe": r.recipe_json.as_deref().map(raw_json)})
-        }
-        Origin::Uploaded => {
-            json!({"kind": "uploaded", "uploaded_at": r.created_at, "received_format": r.received_format})
-        }
+    UploadEquivalence {
+        invariant: Some(kind.to_owned()),
+        compared_with: Some(e.compared_with),
+        possibly_equivalent_to: Some(e.possibly_equivalent_to.clone()),
+        possibly_equivalent_count: Some(e.matches),
+        proven_new: Some(e.matches == 0),
+        note,
     }
 }
 
-fn verification_json(r: &MatrixRecord) -> Value {
-    json!({"check": r.check_name, "check_version": r.check_version, "kernel": r.kernel, "verified_at": r.verified_at})
+/// A stored JSON column, read back (`None` if it does not parse, which the audit reports).
+fn stored<T: serde::de::DeserializeOwned>(text: &str) -> Option<T> {
+    serde_json::from_str(text).ok()
+}
+
+fn properties(r: &MatrixRecord) -> Option<Properties> {
+    stored(&r.properties_json)
+}
+
+fn provenance(r: &MatrixRecord) -> Provenance {
+    match r.origin {
+        Origin::Constructed => Provenance::Constructed {
+            constructed_at: r.created_at.clone(),
+            recipe: r.recipe_json.as_deref().and_then(stored),
+        },
+        Origin::Uploaded => Provenance::Uploaded {
+            uploaded_at: r.created_at.clone(),
+            received_format: r.received_format.clone(),
+        },
+    }
+}
+
+fn verification(r: &MatrixRecord) -> Verification {
+    Verification {
+        check: r.check_name.clone(),
+        check_version: r.check_version,
+        kernel: r.kernel.clone(),
+        verified_at: r.verified_at.clone(),
+    }
 }
 
 /// The short form of a stored matrix, for listings.
-pub fn summary_json(r: &MatrixRecord) -> Value {
-    json!({
-        "id": r.id,
-        "url": format!("/m/{}", r.id),
-        "order": r.order,
-        "origin": r.origin.as_str(),
-        "created_at": r.created_at,
-        "properties": raw_json(&r.properties_json),
-    })
+pub fn summary(r: &MatrixRecord) -> MatrixSummary {
+    MatrixSummary {
+        id: r.id.clone(),
+        url: format!("/m/{}", r.id),
+        order: r.order as u64,
+        origin: match r.origin {
+            Origin::Constructed => wire::Origin::Constructed,
+            Origin::Uploaded => wire::Origin::Uploaded,
+        },
+        created_at: r.created_at.clone(),
+        properties: properties(r),
+    }
 }
 
 /// `GET /api/matrices/{id}`: order, properties, invariant, provenance, verification record,
@@ -348,52 +354,36 @@ pub async fn show(State(state): State<Arc<AppState>>, Path(id): Path<String>) ->
     let Some(r) = rec else {
         return Err(ApiError::not_found(format!("no stored matrix has id {id}")));
     };
-    let downloads: serde_json::Map<String, Value> = DOWNLOAD_FORMATS
+    let downloads = DOWNLOAD_FORMATS
         .iter()
         .map(|f| {
             (
                 (*f).to_owned(),
-                json!(format!("/api/matrices/{id}/download?format={f}")),
+                format!("/api/matrices/{id}/download?format={f}"),
             )
         })
         .collect();
-    Ok(Json(json!({
-        "id": r.id,
-        "url": format!("/m/{}", r.id),
-        "order": r.order,
-        "properties": raw_json(&r.properties_json),
-        "invariant": r.invariant_kind.as_ref().map(|k| json!({"kind": k, "value": r.invariant.as_deref().map(raw_json)})),
-        "provenance": provenance_json(&r),
-        "catalogue_entry": entry.map(|(recipe, at)| json!({"order": r.order, "built_at": at, "recipe": raw_json(&recipe)})),
-        "verification": verification_json(&r),
-        "downloads": downloads,
-        "rows_url": format!("/api/matrices/{id}/rows/{{i}}"),
-        "derived": derived_links(&id, r.order),
-    }))
-    .into_response())
-}
-
-/// Links to every derived object of a matrix (see `api::derive`); `{k}` is the number of
-/// strata to fill in.
-fn derived_links(id: &str, order: usize) -> Value {
-    let base = format!("/api/matrices/{id}/derive");
-    json!({
-        "screening": format!("{base}/screening?factors={}&seed=1", order.saturating_sub(1).max(1)),
-        "screening_csv": format!("{base}/screening?factors={}&seed=1&format=csv", order.saturating_sub(1).max(1)),
-        "brr": format!("{base}/brr?strata={{k}}"),
-        "code_full": format!("{base}/code?variant=full"),
-        "code_punctured": format!("{base}/code?variant=punctured"),
-        "code_shortened": format!("{base}/code?variant=shortened"),
-        "symmetric_design": format!("{base}/symmetric-design"),
-        "symmetric_design_csv": format!("{base}/symmetric-design?format=csv"),
-        "sequency": format!("{base}/sequency"),
-        "ordering_sequency": format!("{base}/ordering?order=sequency&format=pm"),
-        "ordering_dyadic": format!("{base}/ordering?order=dyadic&format=pm"),
-        "scaled_csv": format!("{base}/ordering?scaled=true&format=csv"),
-        "scaled_json": format!("{base}/ordering?scaled=true&format=json"),
-        "scaled_npy": format!("{base}/ordering?scaled=true&format=npy-f64"),
-        "equivalence": format!("/api/equivalence?a={id}&b={{other id}}"),
+    Ok(Json(MatrixInfo {
+        id: r.id.clone(),
+        url: format!("/m/{}", r.id),
+        order: r.order as u64,
+        properties: properties(&r),
+        invariant: r.invariant_kind.as_ref().map(|k| InvariantInfo {
+            kind: k.clone(),
+            value: r.invariant.as_deref().and_then(stored),
+        }),
+        provenance: provenance(&r),
+        catalogue_entry: entry.map(|(recipe, at)| CatalogueRef {
+            order: r.order as u64,
+            built_at: at,
+            recipe: stored(&recipe),
+        }),
+        verification: verification(&r),
+        downloads,
+        rows_url: format!("/api/matrices/{id}/rows/{{i}}"),
+        derived: DerivedLinks::of(&id, r.order),
     })
+    .into_response())
 }
 
 /// A download format with its options, and the tag that tells its representation apart.
@@ -517,7 +507,7 @@ pub async fn row(
             "matrix {id} has order {n}: its rows are 0 to {}",
             n - 1
         ))
-        .with("order", n));
+        .order(n));
     }
     if if_none_match(&headers, &etag) {
         return Ok(not_modified(&etag));
@@ -527,6 +517,13 @@ pub async fn row(
         .map(|j| if m.is_negative(i, j) { '-' } else { '+' })
         .collect();
     let values: Vec<i8> = (0..n).map(|j| m.get(i, j)).collect();
-    let body = json!({"id": id, "order": n, "row": i, "index_base": 0, "pm": pm, "values": values});
+    let body = RowAnswer {
+        id,
+        order: n as u64,
+        row: i as u64,
+        index_base: 0,
+        pm,
+        values,
+    };
     Ok((immutable_headers(&etag), Json(body)).into_response())
 }

@@ -15,32 +15,14 @@ use axum::extract::State;
 use axum::http::StatusCode;
 use axum::response::IntoResponse;
 use axum::Json;
+use hadamard_core::wire::{ApiIndex, ErrorKind, Health};
 use helpers::{blocking, ApiResult};
-use serde_json::json;
 use std::sync::Arc;
 
-/// `GET /api`: the endpoints, for people exploring with curl.
+/// `GET /api`: the endpoints, the formats and the status table
+/// ([`hadamard_core::wire::endpoints`]), for people exploring with curl.
 pub async fn index() -> impl IntoResponse {
-    Json(json!({
-        "name": "Hadamard Registry",
-        "docs": "docs/api.md",
-        "endpoints": [
-            "GET  /api/health",
-            "GET  /api/orders/{n}",
-            "GET  /api/orders/{n}/matrix",
-            "GET  /api/orders/{n}/matrices?limit=L&offset=K",
-            "GET  /api/coverage?max=M",
-            "GET  /api/dimensions/{d}",
-            "GET  /api/smallest-known?at-least=k[&constructible=true]",
-            "POST /api/matrices[?format=F][&bits-minus=0|1]",
-            "GET  /api/matrices/{id}",
-            "GET  /api/matrices/{id}/download?format=pm|csv|bits|json|npy|npy-f64|npy-f64-scaled|png",
-            "GET  /api/matrices/{id}/rows/{i}",
-            "GET  /api/matrices/{id}/derive/{screening|brr|code|symmetric-design|ordering|sequency}?...",
-            "GET  /api/brr?strata=k[&format=csv]",
-            "GET  /api/equivalence?a=ID&b=ID[&budget=N]",
-        ],
-    }))
+    Json(ApiIndex::new())
 }
 
 /// `GET /api/health`: the server answers, its database can be read, and it can be written:
@@ -59,33 +41,33 @@ pub async fn health(State(state): State<Arc<AppState>>) -> ApiResult {
     })
     .await??;
     let probe = blocking(&state, write_probe).await?;
-    let sequences: serde_json::Map<String, serde_json::Value> =
-        sequences.into_iter().map(|(f, k)| (f, json!(k))).collect();
-    let mut body = json!({
-        "status": "ok",
-        "store_writable": probe.is_ok(),
-        "matrices": count,
-        "orders_seeded_up_to": seeded_up_to,
-        "seed_sequences": sequences,
-        "schema_version": crate::store::SCHEMA_VERSION,
-        "version": env!("CARGO_PKG_VERSION"),
-    });
+    let mut body = Health {
+        status: "ok".into(),
+        store_writable: probe.is_ok(),
+        matrices: count,
+        orders_seeded_up_to: seeded_up_to,
+        seed_sequences: sequences.into_iter().collect(),
+        schema_version: crate::store::SCHEMA_VERSION,
+        version: env!("CARGO_PKG_VERSION").into(),
+        kind: None,
+        error: None,
+    };
     if let Err((kind, sentence)) = probe {
-        body["status"] = json!("degraded");
-        body["kind"] = json!(kind);
-        body["error"] = json!(sentence);
+        body.status = "degraded".into();
+        body.kind = Some(kind);
+        body.error = Some(sentence);
         return Ok((StatusCode::SERVICE_UNAVAILABLE, Json(body)).into_response());
     }
     Ok(Json(body).into_response())
 }
 
 /// One real write to the store and one to its directory; the kind and a sentence on failure.
-fn write_probe(c: &crate::catalogue::Catalogue) -> Result<(), (&'static str, String)> {
+fn write_probe(c: &crate::catalogue::Catalogue) -> Result<(), (ErrorKind, String)> {
     use helpers::{io_trouble, storage_trouble, Trouble};
     let kind = |t: Option<Trouble>| match t {
-        Some(Trouble::Full) => "disk_full",
-        Some(Trouble::ReadOnly) => "read_only",
-        None => "write_failed",
+        Some(Trouble::Full) => ErrorKind::DiskFull,
+        Some(Trouble::ReadOnly) => ErrorKind::ReadOnly,
+        None => ErrorKind::WriteFailed,
     };
     let dir = c
         .store

@@ -1,7 +1,7 @@
 //! `/api/orders/{n}`: an order's status and routes; its catalogue matrix; its stored matrices.
 
 use super::helpers::{blocking, heavy, parse_positive, ApiError, ApiResult};
-use super::matrices::summary_json;
+use super::matrices::summary;
 use crate::app::AppState;
 use crate::catalogue::seed::SEED_MAX_ORDER;
 use crate::catalogue::BuildFailure;
@@ -11,7 +11,7 @@ use axum::http::{header, StatusCode};
 use axum::response::IntoResponse;
 use axum::Json;
 use hadamard_core::route;
-use serde_json::{json, Value};
+use hadamard_core::wire::{status_from_name, CatalogueMatrix, ErrorKind, MatrixList};
 use std::collections::HashMap;
 use std::sync::Arc;
 
@@ -57,15 +57,15 @@ pub async fn catalogue_matrix(
     Ok(Json(body).into_response())
 }
 
-/// The catalogue entry of order n as JSON (built and stored on first use).
-pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> {
+/// The catalogue entry of order n (built and stored on first use).
+pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<CatalogueMatrix> {
     let max = state.config.max_order as u64;
     if n > max {
         return Err(ApiError::new(
             StatusCode::UNPROCESSABLE_ENTITY,
             format!("order {n} is above this server's limit of {max} (--max-order)"),
         )
-        .with("limit", max));
+        .limit(max));
     }
     let n = n as usize;
     // Build-on-GET policy: an anonymous request builds and stores orders up to
@@ -81,18 +81,18 @@ pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> 
                 StatusCode::UNPROCESSABLE_ENTITY,
                 format!("order {n} is not in this catalogue yet, and this server builds and stores on request only up to order {limit} (--store-max-order); `hadamard build {n}` makes it on your machine"),
             )
-            .with("order", n)
-            .with("kind", "not_built")
-            .with("limit", limit));
+            .order(n)
+            .kind(ErrorKind::NotBuilt)
+            .limit(limit));
         };
-        return Ok(json!({
-            "order": n,
-            "id": id,
-            "url": format!("/m/{id}"),
-            "api_url": format!("/api/matrices/{id}"),
-            "built_now": false,
-            "recipe": serde_json::from_str::<Value>(&recipe_json).unwrap_or(Value::Null),
-        }));
+        return Ok(CatalogueMatrix {
+            order: n as u64,
+            url: format!("/m/{id}"),
+            api_url: format!("/api/matrices/{id}"),
+            id,
+            built_now: false,
+            recipe: serde_json::from_str(&recipe_json).ok(),
+        });
     }
     // One build per order at a time: later requests wait and then find it stored.
     let lock = state.build_lock(n);
@@ -100,19 +100,19 @@ pub async fn catalogue_entry(state: &Arc<AppState>, n: u64) -> ApiResult<Value> 
     let entry = heavy(state, move |c| c.catalogue_matrix(n)).await?;
     state.forget_build_lock(n);
     match entry {
-        Ok(e) => Ok(json!({
-            "order": n,
-            "id": e.id,
-            "url": format!("/m/{}", e.id),
-            "api_url": format!("/api/matrices/{}", e.id),
-            "built_now": e.created,
-            "recipe": serde_json::from_str::<Value>(&e.recipe_json).unwrap_or(Value::Null),
-        })),
+        Ok(e) => Ok(CatalogueMatrix {
+            order: n as u64,
+            url: format!("/m/{}", e.id),
+            api_url: format!("/api/matrices/{}", e.id),
+            id: e.id,
+            built_now: e.created,
+            recipe: serde_json::from_str(&e.recipe_json).ok(),
+        }),
         Err(BuildFailure::NoRoute { message, status }) => Err(ApiError::not_found(format!(
             "the catalogue has no matrix of order {n}: {message}"
         ))
-        .with("order", n)
-        .with("status", status)),
+        .order(n)
+        .and(|b| b.status = status_from_name(&status))),
         Err(BuildFailure::Store(e)) => Err(e.into()),
     }
 }
@@ -148,9 +148,7 @@ pub async fn list(
     if stored == 0 && n <= state.config.max_order.min(state.config.store_max_order) as u64 {
         let status = heavy(&state, move |_| route::order_info(n).status).await?;
         if status == route::Status::Constructible {
-            built = catalogue_entry(&state, n)
-                .await
-                .is_ok_and(|v| v["built_now"] == json!(true));
+            built = catalogue_entry(&state, n).await.is_ok_and(|v| v.built_now);
         }
     }
     let (total, page, entry) = blocking(&state, move |c| {
@@ -163,14 +161,14 @@ pub async fn list(
         })
     })
     .await??;
-    Ok(Json(json!({
-        "order": n,
-        "total": total,
-        "offset": offset,
-        "limit": limit,
-        "catalogue_entry": entry.map(|(id, _, _)| id),
-        "built_now": built,
-        "matrices": page.iter().map(summary_json).collect::<Vec<_>>(),
-    }))
+    Ok(Json(MatrixList {
+        order: n,
+        total,
+        offset,
+        limit,
+        catalogue_entry: entry.map(|(id, _, _)| id),
+        built_now: built,
+        matrices: page.iter().map(summary).collect(),
+    })
     .into_response())
 }

@@ -11,7 +11,7 @@ use crate::web_assets::Asset;
 use axum::extract::{Path, State};
 use axum::http::{header, HeaderMap, HeaderValue, Method, StatusCode, Uri};
 use axum::response::{Html, IntoResponse, Response};
-use serde_json::json;
+use hadamard_core::wire::IdPrefixAnswer;
 use std::sync::Arc;
 
 /// The page every app path serves; the app renders client-side. `{MAX_ORDER}` is replaced by
@@ -30,7 +30,7 @@ pub const INDEX_HTML: &str = r#"<!doctype html>
 <style>#boot-loading{font:16px/1.5 system-ui,sans-serif;max-width:62rem;margin:0 auto;padding:1em;color:#1d3557}#boot-loading h1{font-size:1.6rem}</style>
 </head>
 <body>
-<div id="boot-loading"><h1>Hadamard Registry</h1><p id="boot-status">Loading the page (about 300 KB)…</p></div>
+<div id="boot-loading"><h1>Hadamard Registry</h1><p id="boot-status">Loading the page (about 400 KB)…</p></div>
 <noscript>The Hadamard Registry's page needs JavaScript and WebAssembly. The JSON API under /api/ works without them.</noscript>
 </body>
 </html>
@@ -66,8 +66,7 @@ pub async fn order_download(
     uri: Uri,
 ) -> ApiResult {
     let n = parse_positive("the order", &n, super::orders::ORDER_QUERY_MAX)?;
-    let entry = super::orders::catalogue_entry(&state, n).await?;
-    let id = entry["id"].as_str().unwrap_or_default();
+    let id = super::orders::catalogue_entry(&state, n).await?.id;
     let query = uri.query().map(|q| format!("?{q}")).unwrap_or_default();
     let to = format!("/api/matrices/{id}/download{query}");
     let to = HeaderValue::from_str(&to)
@@ -81,8 +80,7 @@ pub async fn id_prefix(State(state): State<Arc<AppState>>, Path(p): Path<String>
     let p = p.to_ascii_lowercase();
     if !(8..64).contains(&p.len()) || !p.bytes().all(|b| b.is_ascii_hexdigit()) {
         return Err(
-            ApiError::bad_request("an id prefix is 8 to 63 hexadecimal digits")
-                .with("parameter", "prefix"),
+            ApiError::bad_request("an id prefix is 8 to 63 hexadecimal digits").parameter("prefix"),
         );
     }
     let key = p.clone();
@@ -99,7 +97,12 @@ pub async fn id_prefix(State(state): State<Arc<AppState>>, Path(p): Path<String>
     .await??;
     let more = ids.len() > 10;
     let ids: Vec<String> = ids.into_iter().take(10).collect();
-    Ok(axum::Json(json!({"prefix": p, "ids": ids, "more": more})).into_response())
+    Ok(axum::Json(IdPrefixAnswer {
+        prefix: p,
+        ids,
+        more,
+    })
+    .into_response())
 }
 
 /// `GET /m/{id}`: a matrix's permanent page. The shell, with 404 when the id is not stored
