@@ -16,6 +16,7 @@ use std::path::PathBuf;
 use std::sync::{Arc, Mutex};
 use std::time::Duration;
 use tokio::sync::Semaphore;
+use tower_http::set_header::SetResponseHeaderLayer;
 use tower_http::trace::TraceLayer;
 
 /// How the server runs.
@@ -164,7 +165,22 @@ pub fn router(state: Arc<AppState>) -> Router {
         .layer(middleware::from_fn_with_state(state.clone(), timeout))
         .layer(middleware::from_fn(api_errors_as_json))
         .layer(middleware::from_fn(head_limits))
-        .layer(middleware::from_fn(security_headers))
+        .layer(SetResponseHeaderLayer::overriding(
+            header::CONTENT_SECURITY_POLICY,
+            HeaderValue::from_static(CSP),
+        ))
+        .layer(SetResponseHeaderLayer::overriding(
+            header::X_CONTENT_TYPE_OPTIONS,
+            HeaderValue::from_static("nosniff"),
+        ))
+        .layer(SetResponseHeaderLayer::overriding(
+            header::REFERRER_POLICY,
+            HeaderValue::from_static("no-referrer"),
+        ))
+        .layer(SetResponseHeaderLayer::overriding(
+            header::X_FRAME_OPTIONS,
+            HeaderValue::from_static("DENY"),
+        ))
         .layer(TraceLayer::new_for_http())
         .with_state(state)
 }
@@ -172,25 +188,6 @@ pub fn router(state: Arc<AppState>) -> Router {
 /// The content security policy: our own scripts and WebAssembly, inline styles (Leptos sets
 /// some), pictures from ourselves and from `data:`/`blob:` URLs, no framing.
 pub const CSP: &str = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; connect-src 'self'; object-src 'none'; base-uri 'none'; form-action 'self'; frame-ancestors 'none'";
-
-async fn security_headers(req: Request, next: Next) -> Response {
-    let mut resp = next.run(req).await;
-    let h = resp.headers_mut();
-    h.insert(
-        header::CONTENT_SECURITY_POLICY,
-        HeaderValue::from_static(CSP),
-    );
-    h.insert(
-        header::X_CONTENT_TYPE_OPTIONS,
-        HeaderValue::from_static("nosniff"),
-    );
-    h.insert(
-        header::REFERRER_POLICY,
-        HeaderValue::from_static("no-referrer"),
-    );
-    h.insert(header::X_FRAME_OPTIONS, HeaderValue::from_static("DENY"));
-    resp
-}
 
 /// Refuses request targets over [`MAX_URI_BYTES`] (414) and headers over [`MAX_HEADER_BYTES`]
 /// (431) with a JSON sentence, before any handler runs.
