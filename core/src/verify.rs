@@ -31,6 +31,7 @@
 //! verdict alone, stopping at the first failing pair). Natively the pair check is spread over
 //! threads and runs beside the id and properties; in wasm32 it runs on the caller's thread.
 
+use crate::id::matrix_id;
 use crate::matrix::Matrix;
 
 mod checked;
@@ -88,19 +89,13 @@ pub fn verify_with_cap(m: &Matrix, cap: usize) -> Report {
 /// # Panics
 /// When this CPU lacks the kernel ([`Kernel::is_available`]).
 pub fn verify_with(m: &Matrix, cap: usize, kernel: Kernel) -> Report {
-    kernel.assert_available();
-    let check = || {
-        let mut tally = PairTally::new(cap);
-        gram_pass(m, kernel, &mut tally);
-        tally
-    };
-    // Natively the id (one SHA-256 chain, serial) and the properties run beside the check,
-    // which takes whatever threads are left.
+    // Natively the id (one SHA-256 chain, serial) runs beside the check and the properties,
+    // which take whatever threads are left.
     #[cfg(not(target_arch = "wasm32"))]
-    let (tally, facts) = rayon::join(check, || facts(m));
+    let (checked, id) = rayon::join(|| check_with(m, cap, kernel), || matrix_id(m));
     #[cfg(target_arch = "wasm32")]
-    let (tally, facts) = (check(), facts(m));
-    report_from(facts, tally, kernel)
+    let (checked, id) = (check_with(m, cap, kernel), matrix_id(m));
+    checked.report(id)
 }
 
 /// The name of the kernel [`verify`] uses on this machine ([`Kernel::best`]).
